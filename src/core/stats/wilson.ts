@@ -1,0 +1,22 @@
+/** A two-sided confidence interval for a proportion. */
+export interface Interval {
+  readonly low: number;
+  readonly high: number;
+}
+
+/** z for a two-sided 95 % normal interval. */
+export const Z95 = 1.959963984540054;
+
+/**
+ * Wilson score interval (Wilson 1927) for `successes` out of `trials`.
+ * Returns [0, 1] for zero trials: nothing was measured.
+ */
+export function wilsonInterval(successes: number, trials: number, z: number = Z95): Interval {
+  if (trials <= 0) return { low: 0, high: 1 };
+  const p = successes / trials;
+  const z2 = z * z;
+  const denom = 1 + z2 / trials;
+  const centre = (p + z2 / (2 * trials)) / denom;
+  const half = (z * Math.sqrt((p * (1 - p)) / trials + z2 / (4 * trials * trials))) / denom;
+  return { low: Math.max(0, centre - half), high: Math.min(1, centre + half) };
+}
