@@ -76,3 +76,25 @@ export interface SampleSet {
   /** N·H·W·C floats in [0,1], NHWC order. */
   readonly pixels: Float32Array;
 }
+
+/**
+ * A model loaded by any of the loaders (tfjs layers, tfjs graph, ONNX). `forward` is the model's
+ * own function on its own input (already preprocessed, in its own layout); differentiable.
+ * Pixel-space functions are built from it with makeLogitsFn (models/pipeline.ts).
+ */
+export interface LoadedModel {
+  readonly description: ModelDescription;
+  /** Raw model output [N, K] (logits or probabilities, see description.outputKind). */
+  forward(input: tf.Tensor4D): tf.Tensor2D;
+  dispose(): void;
+}
+
+/** Decodes one image file to RGBA bytes; the CLI uses a pure-JS decoder, the browser its own. */
+export type ImageDecoder = (file: NamedBytes) => Promise<DecodedImage>;
+
+export interface DecodedImage {
+  readonly width: number;
+  readonly height: number;
+  /** width·height·4 bytes, RGBA, row-major. */
+  readonly rgba: Uint8Array;
+}
