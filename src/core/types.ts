@@ -54,6 +54,18 @@ export interface ModelDescription {
   readonly parameterCount: number;
   /** Anything odd found while loading (e.g. a layout guess), one sentence each. */
   readonly notes: readonly string[];
+  /** Present for ONNX models. */
+  readonly onnx?: OnnxDetails;
+}
+
+/** What the ONNX loader reports about the file it read. */
+export interface OnnxDetails {
+  readonly opset: number;
+  readonly inputName: string;
+  readonly outputName: string;
+  /** Node count per op type, e.g. { Conv: 3, Relu: 3 }. */
+  readonly opHistogram: Readonly<Record<string, number>>;
+  readonly producer: string;
 }
 
 /**
