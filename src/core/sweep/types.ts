@@ -16,6 +16,12 @@ export interface SweepConfig {
   readonly norm: Norm;
   /** Budgets in pixel units, in the order given (sorted ascending by the sweep). */
   readonly eps: readonly number[];
+  /**
+   * Optional: the budgets as the user wrote them (e.g. "8/255" or "0.1"), one per `eps` entry, same
+   * order. Exports print these so the user's own spelling survives; without them a budget is printed
+   * in the shortest form that reads back to the same number.
+   */
+  readonly epsLabels?: readonly string[];
   readonly seed: number;
   /** Samples per forward/backward batch. */
   readonly batchSize: number;

@@ -1,0 +1,89 @@
+/**
+ * Reads a model and a sample set from disk into the core, turning every problem with the
+ * user's files into a UsageError (exit code 2) with a one-line message.
+ */
+import { readFile } from 'node:fs/promises';
+import { UsageError } from './args.ts';
+import { readModelFiles } from './nodeModelFiles.ts';
+import { readSampleFiles } from './nodeSampleFiles.ts';
+import { decodeImageNode } from './decodeImageNode.ts';
+import { loadModelFromFiles } from '../core/models/loadModel.ts';
+import { preprocessingFor, validatePreprocessing } from '../core/models/pipeline.ts';
+import { buildSampleSet, parseClassNames } from '../core/samples/buildSampleSet.ts';
+import type { LoadedModel, ModelDescription, NamedBytes, Preprocessing, SampleSet } from '../core/types.ts';
+
+export interface LoadedInputs {
+  readonly model: LoadedModel;
+  readonly modelFiles: readonly NamedBytes[];
+  readonly samples: SampleSet;
+  readonly sampleFiles: readonly NamedBytes[];
+  readonly preprocessing: Preprocessing;
+}
+
+export interface InputPaths {
+  readonly modelPath: string;
+  readonly samplesPath: string;
+  readonly classesPath: string | undefined;
+  readonly limit: number | undefined;
+  /** Final preprocessing from the model's defaults (flags applied by the caller). */
+  readonly preprocessing: (base: Preprocessing, description: ModelDescription) => Preprocessing;
+}
+
+/** Load model and samples; the caller disposes `model`. */
+export async function loadInputs(paths: InputPaths): Promise<LoadedInputs> {
+  const modelFiles = await asInputError(() => readModelFiles(paths.modelPath));
+  const model = await asInputError(() => loadModelFromFiles(modelFiles));
+  try {
+    const description = model.description;
+    const preprocessing = paths.preprocessing(preprocessingFor(description), description);
+    const problem = validatePreprocessing(preprocessing, description);
+    if (problem) throw new UsageError(problem);
+    const classNames = paths.classesPath === undefined ? undefined : await readClassNames(paths.classesPath);
+    const sampleFiles = await asInputError(() => readSampleFiles(paths.samplesPath));
+    const built = await asInputError(() =>
+      buildSampleSet(sampleFiles, {
+        height: description.height,
+        width: description.width,
+        channels: description.channels === 1 ? 1 : 3,
+        decoder: decodeImageNode,
+        ...(classNames ? { classNames } : {}),
+      }),
+    );
+    const samples = paths.limit === undefined ? built.set : limitSamples(built.set, paths.limit);
+    const maxLabel = Math.max(...samples.labels);
+    if (maxLabel >= description.numClasses) {
+      throw new UsageError(`label ${maxLabel} is out of range: the model has ${description.numClasses} classes (0..${description.numClasses - 1})`);
+    }
+    return { model, modelFiles, samples, sampleFiles, preprocessing };
+  } catch (err) {
+    model.dispose();
+    throw err;
+  }
+}
+
+async function readClassNames(file: string): Promise<string[]> {
+  const bytes = await asInputError(() => readFile(file));
+  return asInputError(async () => parseClassNames({ name: file, bytes: new Uint8Array(bytes) }));
+}
+
+/** The first `limit` samples (in the set's deterministic order). */
+export function limitSamples(set: SampleSet, limit: number): SampleSet {
+  if (limit >= set.files.length) return set;
+  const per = set.height * set.width * set.channels;
+  return {
+    ...set,
+    files: set.files.slice(0, limit),
+    labels: set.labels.slice(0, limit),
+    pixels: set.pixels.slice(0, limit * per),
+  };
+}
+
+async function asInputError<T>(load: () => Promise<T>): Promise<T> {
+  try {
+    return await load();
+  } catch (err) {
+    if (err instanceof UsageError) throw err;
+    const message = err instanceof Error ? err.message : String(err);
+    throw new UsageError(message.split('\n')[0] ?? message);
+  }
+}

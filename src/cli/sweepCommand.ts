@@ -1,0 +1,115 @@
+/**
+ * `brink sweep`: load a model and a sample set from disk, run attacks × budgets through the
+ * core's sweep, write curve.csv, samples.csv and run.json into --out.
+ */
+import { mkdir, writeFile } from 'node:fs/promises';
+import path from 'node:path';
+import type { FlagTable, ParsedArgs } from './args.ts';
+import { UsageError, formatUsage, parseChoice, parseNumber, parseNumberList, requireValue } from './args.ts';
+import { PREPROCESSING_FLAGS, SEARCH_FLAGS, attackOptionsFor, preprocessingFromFlags, searchOptionsFromFlags, targetFromFlag } from './sweepFlags.ts';
+import { loadInputs } from './loadInputs.ts';
+import { startNodeBackend } from './nodePlatform.ts';
+import { stderrProgress } from './progress.ts';
+import { getAttack, attackIds } from '../core/attacks/registry.ts';
+import type { AttackId } from '../core/attacks/types.ts';
+import { makeLogitsFn } from '../core/models/pipeline.ts';
+import { runSweep } from '../core/sweep/runSweep.ts';
+import type { SweepConfig } from '../core/sweep/types.ts';
+import { curveCsv, samplesCsv } from '../core/export/csv.ts';
+import { runJson } from '../core/export/runRecord.ts';
+import type { Norm } from '../core/types.ts';
+
+export const SWEEP_FLAGS: FlagTable = {
+  model: { kind: 'string', placeholder: '<model.json|model.onnx>', description: 'the model to evaluate' },
+  samples: { kind: 'string', placeholder: '<folder|manifest.csv>', description: 'labelled samples: a folder per class or a file,label manifest' },
+  classes: { kind: 'string', placeholder: '<file>', description: 'class names, one per line, in index order' },
+  attack: { kind: 'string', placeholder: '<fgsm|pgd>[,...]', description: 'searches to run at every budget' },
+  norm: { kind: 'string', placeholder: 'linf|l2', description: 'threat model norm, in pixel units on [0,1]' },
+  eps: { kind: 'string', placeholder: '<e1,e2,...>', description: 'budgets (e.g. 0,0.0078,0.0157 or 2/255 written as 0.00784)' },
+  ...SEARCH_FLAGS,
+  ...PREPROCESSING_FLAGS,
+  seed: { kind: 'string', placeholder: '<S>', description: 'random seed (default 0): same seed, same bytes' },
+  batch: { kind: 'string', placeholder: '<B>', description: 'samples per batch (default 32)' },
+  limit: { kind: 'string', placeholder: '<N>', description: 'use only the first N samples' },
+  out: { kind: 'string', placeholder: '<dir>', description: 'folder for curve.csv, samples.csv and run.json' },
+  help: { kind: 'boolean', description: 'show this text' },
+};
+
+export const SWEEP_USAGE = formatUsage('sweep', '--model <model.json> --samples <dir|csv> --attack fgsm,pgd --norm linf --eps 0.01,0.03 --out <dir> [options]', SWEEP_FLAGS);
+
+const NORMS: readonly Norm[] = ['linf', 'l2'];
+
+/** Run the sweep command; resolves when the files are written. */
+export async function sweepCommand(args: ParsedArgs): Promise<void> {
+  if (args.flags.has('help')) {
+    process.stdout.write(`${SWEEP_USAGE}\n`);
+    return;
+  }
+  if (args.positional.length > 0) throw new UsageError(`unexpected argument "${args.positional[0]}"`);
+  const outDir = requireValue(args, 'out');
+  const norm = parseChoice(requireValue(args, 'norm'), '--norm', NORMS);
+  const epsText = requireValue(args, 'eps');
+  const eps = parseNumberList(epsText, '--eps', { min: 0 });
+  const attacks = parseAttackList(requireValue(args, 'attack'), norm);
+  const seed = parseNumber(args.values.get('seed') ?? '0', '--seed', { integer: true, min: 0 });
+  const batchSize = parseNumber(args.values.get('batch') ?? '32', '--batch', { integer: true, positive: true });
+  const limitText = args.values.get('limit');
+  const limit = limitText === undefined ? undefined : parseNumber(limitText, '--limit', { integer: true, positive: true });
+
+  const backend = await startNodeBackend();
+  const inputs = await loadInputs({
+    modelPath: requireValue(args, 'model'),
+    samplesPath: requireValue(args, 'samples'),
+    classesPath: args.values.get('classes'),
+    limit,
+    preprocessing: (base, description) => preprocessingFromFlags(args, base, description),
+  });
+  try {
+    const target = targetFromFlag(args.values.get('target'), inputs.samples.classNames);
+    const rawOptions = searchOptionsFromFlags(args, target);
+    const config: SweepConfig = {
+      attacks: attacks.map((id) => {
+        const attack = getAttack(id);
+        return { id, options: attack.meta.validate(attackOptionsFor(attack.meta.defaults as object, rawOptions)) as Record<string, unknown> };
+      }),
+      norm,
+      eps,
+      epsLabels: epsText.split(',').map((s) => s.trim()),
+      seed,
+      batchSize,
+    };
+    const startedAt = new Date();
+    const logits = makeLogitsFn(inputs.model, inputs.preprocessing);
+    const result = await runSweep({ logits, samples: inputs.samples, config }, { onProgress: stderrProgress() });
+    await mkdir(outDir, { recursive: true });
+    await writeFile(path.join(outDir, 'curve.csv'), curveCsv(result));
+    await writeFile(path.join(outDir, 'samples.csv'), samplesCsv(result));
+    const json = await runJson({
+      result,
+      modelFiles: inputs.modelFiles,
+      sampleFiles: inputs.sampleFiles,
+      preprocessing: inputs.preprocessing,
+      model: inputs.model.description,
+      classNames: inputs.samples.classNames,
+      backend,
+      startedAt,
+      endedAt: new Date(),
+      commandLine: ['npm', 'run', '-s', 'cli', '--', 'sweep', ...process.argv.slice(3)],
+    });
+    await writeFile(path.join(outDir, 'run.json'), json);
+    process.stderr.write(`brink: clean accuracy ${(result.cleanAccuracy * 100).toFixed(2)} %; wrote curve.csv, samples.csv, run.json to ${outDir}\n`);
+  } finally {
+    inputs.model.dispose();
+  }
+}
+
+function parseAttackList(text: string, norm: Norm): AttackId[] {
+  const known = attackIds();
+  const ids = text.split(',').map((s) => s.trim().toLowerCase());
+  for (const id of ids) {
+    if (!(known as readonly string[]).includes(id)) throw new UsageError(`--attack: unknown search "${id}" (known: ${known.join(', ')})`);
+    if (!getAttack(id as AttackId).meta.norms.includes(norm)) throw new UsageError(`--attack: ${id} does not support --norm ${norm}`);
+  }
+  if (new Set(ids).size !== ids.length) throw new UsageError('--attack: a search is listed twice');
+  return ids as AttackId[];
+}
