@@ -104,7 +104,7 @@ function pickColours(rng: Rng): { paint: Rgb; floor: Rgb } {
 /** Per-pixel paint opacity after wear: blotches of missing paint and fine speckle. */
 function paintAlpha(coverage: Float32Array, rng: Rng): Float32Array {
   const opacity = uniform(rng, 0.75, 1);
-  const wear = uniform(rng, 0, 0.45);
+  const wear = uniform(rng, 0, 0.35);
   const speckle = uniform(rng, 0, 0.08);
   const blotches = makeValueNoise(rng, 6);
   const threshold = 1 - wear;

@@ -15,7 +15,7 @@ import type { AttackId } from '../core/attacks/types.ts';
 import { makeLogitsFn } from '../core/models/pipeline.ts';
 import { runSweep } from '../core/sweep/runSweep.ts';
 import type { SweepConfig } from '../core/sweep/types.ts';
-import { curveCsv, samplesCsv } from '../core/export/csv.ts';
+import { curveCsv, samplesCsv } from '../core/export/curveCsv.ts';
 import { runJson } from '../core/export/runRecord.ts';
 import type { Norm } from '../core/types.ts';
 
@@ -78,7 +78,6 @@ export async function sweepCommand(args: ParsedArgs): Promise<void> {
       seed,
       batchSize,
     };
-    const startedAt = new Date();
     const logits = makeLogitsFn(inputs.model, inputs.preprocessing);
     const result = await runSweep({ logits, samples: inputs.samples, config }, { onProgress: stderrProgress() });
     await mkdir(outDir, { recursive: true });
@@ -92,8 +91,6 @@ export async function sweepCommand(args: ParsedArgs): Promise<void> {
       model: inputs.model.description,
       classNames: inputs.samples.classNames,
       backend,
-      startedAt,
-      endedAt: new Date(),
       commandLine: ['npm', 'run', '-s', 'cli', '--', 'sweep', ...process.argv.slice(3)],
     });
     await writeFile(path.join(outDir, 'run.json'), json);

@@ -29,7 +29,11 @@ export interface AttackProblem {
   readonly norm: Norm;
 }
 
-/** Progress in units the attack chooses (usually gradient evaluations). */
+/**
+ * Progress in units the attack chooses (usually gradient evaluations). `done` only grows and the
+ * last call has done === total; FGSM and PGD count planned sample-steps (batch × steps × restarts),
+ * steps saved on already-flipped samples included.
+ */
 export type ProgressFn = (done: number, total: number) => void;
 
 export interface AttackContext {
@@ -47,9 +51,16 @@ export interface AttackOutcome {
    * managed to misclassify at any iterate of any restart, this is that misclassified point.
    */
   readonly adv: tf.Tensor4D;
-  /** 1 where `adv` is misclassified. */
+  /**
+   * 1 where `adv` is misclassified (argmax ≠ true label), also for targeted searches: a targeted
+   * search that lands on a wrong class other than its target has still flipped the sample.
+   */
   readonly flipped: Uint8Array;
-  /** Forward + backward passes spent, per sample. */
+  /**
+   * Forward + backward passes spent, per sample: the mean over the batch (rows passed through a
+   * gradient pass ÷ batch size). Searches that stop attacking flipped samples spend less than
+   * meta.estimateGradientEvaluations; forward-only checks are not counted.
+   */
   readonly gradientEvaluations: number;
 }
 

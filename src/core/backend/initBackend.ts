@@ -4,6 +4,7 @@
  */
 import * as tf from '@tensorflow/tfjs';
 import { setWasmPaths, setThreadsCount } from '@tensorflow/tfjs-backend-wasm';
+import { registerBrinkWasmKernels } from './kernels/registerKernels.ts';
 
 export interface BackendInfo {
   readonly name: 'wasm' | 'cpu';
@@ -25,7 +26,10 @@ export interface BackendOptions {
 
 let wasmPathSet: string | null = null;
 
-/** Start (or switch to) the requested backend; idempotent. */
+/**
+ * Start (or switch to) the requested backend; idempotent. On wasm, Brink's replacement gradient
+ * kernels (kernels/registerKernels.ts) are registered as well.
+ */
 export async function initBackend(options: BackendOptions): Promise<BackendInfo> {
   const wanted = options.backend ?? 'wasm';
   if (wanted === 'wasm') {
@@ -44,6 +48,7 @@ export async function initBackend(options: BackendOptions): Promise<BackendInfo>
     }
     if (started) {
       await tf.ready();
+      registerBrinkWasmKernels();
       return describeCurrentBackend(null);
     }
     await tf.setBackend('cpu');

@@ -32,7 +32,7 @@ export function decodeText(file: NamedBytes): string {
 
 /**
  * Reads the manifest's rows in order. Throws on a row without exactly two fields, an empty field,
- * a file listed twice, or a manifest without rows.
+ * an absolute path, a file listed twice, or a manifest without rows.
  */
 export function parseManifest(file: NamedBytes): ManifestEntry[] {
   const records = parseCsv(decodeText(file), file.name);
@@ -49,6 +49,9 @@ export function parseManifest(file: NamedBytes): ManifestEntry[] {
     }
     if (listed === '') throw new Error(`${file.name} row ${record.row}: the file field is empty`);
     if (label === '') throw new Error(`${file.name} row ${record.row}: the label field is empty`);
+    if (/^([/\\]|[A-Za-z]:[/\\])/.test(listed)) {
+      throw new Error(`${file.name} row ${record.row}: ${listed} is an absolute path; paths must be relative to the manifest's folder`);
+    }
     const relative = joinPath('', listed);
     const resolved = joinPath(folder, listed);
     const earlier = rowOf.get(resolved);

@@ -30,6 +30,14 @@ export function isSampleRelevantName(name: string): boolean {
 }
 
 /**
+ * True for paths that a file manager or an archiver adds and the user never meant as samples:
+ * any component starting with '.' (e.g. .DS_Store, AppleDouble '._1.png') or named __MACOSX.
+ */
+export function isHiddenPath(path: string): boolean {
+  return path.split('/').some((part) => (part.startsWith('.') && part !== '.' && part !== '..') || part === '__MACOSX');
+}
+
+/**
  * Normalises a relative path: '\\' becomes '/', empty and '.' components go, 'a/..' collapses.
  * Leading '..' components are kept (a manifest may point above its own folder).
  */

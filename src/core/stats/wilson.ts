@@ -18,5 +18,8 @@ export function wilsonInterval(successes: number, trials: number, z: number = Z9
   const denom = 1 + z2 / trials;
   const centre = (p + z2 / (2 * trials)) / denom;
   const half = (z * Math.sqrt((p * (1 - p)) / trials + z2 / (4 * trials * trials))) / denom;
-  return { low: Math.max(0, centre - half), high: Math.min(1, centre + half) };
+  // At p̂ = 0 or 1 one endpoint is exactly 0 or 1 in closed form; rounding would leave it an ulp off.
+  const low = successes <= 0 ? 0 : Math.max(0, centre - half);
+  const high = successes >= trials ? 1 : Math.min(1, centre + half);
+  return { low, high };
 }

@@ -1,7 +1,9 @@
 /**
- * Progress of a sweep in gradient evaluations (sample-steps). The total is an estimate that shrinks
- * as samples flip (they are not attacked at larger budgets) and is corrected with the evaluations
- * each batch actually spent.
+ * Progress of a sweep in planned gradient evaluations (sample-steps, from each attack's
+ * meta.estimateGradientEvaluations). The total shrinks as samples flip, since they are not attacked
+ * at larger budgets. Within a batch the attack's own done/total fraction is used; a search that stops
+ * early on flipped samples still counts its planned steps (as the attacks' own progress does), so
+ * `done` never goes backwards and ends equal to `total`.
  */
 import type { AttackId } from '../attacks/types.ts';
 import type { SweepProgress } from './types.ts';
@@ -29,11 +31,10 @@ export class ProgressTracker {
     this.emit(attack, eps, false);
   }
 
-  /** A batch finished after spending `spent` evaluations where `planned` were estimated. */
-  batchDone(planned: number, spent: number, attack: AttackId, eps: number): void {
+  /** A batch of `planned` evaluations finished. */
+  batchDone(planned: number, attack: AttackId, eps: number): void {
     this.inBatch = 0;
-    this.done += spent;
-    this.total += spent - planned;
+    this.done += planned;
     this.emit(attack, eps, true);
   }
 

@@ -1,0 +1,57 @@
+/**
+ * Conv2DBackpropFilter for the wasm backend, which has none (tfjs 4.22): any fused conv2d with a
+ * linear activation (e.g. conv → batch-norm) computes it inside its gradient, even when only the
+ * input gradient is wanted. Written as im2col: every filter tap's strided view of the padded input
+ * is laid side by side into a patch matrix, and one matrix product with dy gives the filter
+ * gradient.
+ */
+import * as tf from '@tensorflow/tfjs';
+import { asBackend, pairOf, requireInput, runComposed, shape4 } from './composed.ts';
+import { toChannelsLast, windowGeometry } from './spatial.ts';
+import { extractTaps } from './taps.ts';
+import type { WindowGeometry } from './spatial.ts';
+
+/**
+ * Filter gradient of an NHWC conv2d: x [B, inH, inW, inC], dy [B, outH, outW, outC]
+ * → dW [fh, fw, inC, outC]. Honours strides, any padding and (when set) dilations.
+ */
+export function conv2dFilterGradient(x: tf.Tensor4D, dy: tf.Tensor4D, g: WindowGeometry): tf.Tensor4D {
+  const inChannels = x.shape[3];
+  const outChannels = dy.shape[3];
+  const taps = extractTaps(x, g, 0).flat();
+  const rows = g.batch * g.outHeight * g.outWidth;
+  const patches = tf.reshape(taps.length === 1 ? taps[0]! : tf.concat(taps, 3), [rows, g.filterHeight * g.filterWidth * inChannels]);
+  const product = tf.matMul(patches, tf.reshape(dy, [rows, outChannels]), true, false);
+  return tf.reshape(product, [g.filterHeight, g.filterWidth, inChannels, outChannels]);
+}
+
+function conv2DBackpropFilter({ inputs, backend, attrs }: Parameters<tf.KernelFunc>[0]): tf.TensorInfo {
+  const x = requireInput(inputs, 'x', 'Conv2DBackpropFilter');
+  const dy = requireInput(inputs, 'dy', 'Conv2DBackpropFilter');
+  const a = (attrs ?? {}) as unknown as tf.Conv2DBackpropFilterAttrs & { dilations?: number | [number, number] };
+  const dataFormat = tf.backend_util.convertConv2DDataFormat(a.dataFormat ?? 'NHWC');
+  // tfjs passes no dilations to this kernel (its conv2d gradient requires 1); accept them if given.
+  const info = tf.backend_util.computeConv2DInfo(
+    shape4(x, 'x'),
+    [...a.filterShape],
+    a.strides,
+    pairOf(a.dilations, 1),
+    a.pad,
+    a.dimRoundingMode,
+    false,
+    dataFormat,
+  );
+  const g = windowGeometry(info);
+  return runComposed(asBackend(backend), [x, dy], (xT, dyT) => {
+    const channelsFirst = dataFormat === 'channelsFirst';
+    const x4 = channelsFirst ? toChannelsLast(xT as tf.Tensor4D) : (xT as tf.Tensor4D);
+    const dy4 = channelsFirst ? toChannelsLast(dyT as tf.Tensor4D) : (dyT as tf.Tensor4D);
+    return conv2dFilterGradient(x4, dy4, g);
+  });
+}
+
+export const conv2DBackpropFilterConfig: tf.KernelConfig = {
+  kernelName: tf.Conv2DBackpropFilter,
+  backendName: 'wasm',
+  kernelFunc: conv2DBackpropFilter as tf.KernelFunc,
+};

@@ -1,0 +1,55 @@
+/**
+ * DepthwiseConv2dNativeBackpropFilter for the wasm backend, which has none (tfjs 4.22). A fused
+ * depthwise conv with a linear activation (e.g. depthwise → batch-norm in a converted graph)
+ * computes it inside its gradient even when only the input gradient is wanted. Every filter tap's
+ * view of the padded input times dy, summed over batch and positions: one batched matrix product
+ * per channel.
+ */
+import * as tf from '@tensorflow/tfjs';
+import { asBackend, pairOf, requireInput, runComposed, shape4 } from './composed.ts';
+import { windowGeometry } from './spatial.ts';
+import { extractTaps } from './taps.ts';
+import type { WindowGeometry } from './spatial.ts';
+
+/**
+ * Filter gradient of an NHWC depthwise conv: x [B, inH, inW, inC], dy [B, outH, outW, inC·mult]
+ * → dW [fh, fw, inC, mult]. Strides, any padding, dilations (stride 1).
+ */
+export function depthwiseFilterGradient(x: tf.Tensor4D, dy: tf.Tensor4D, g: WindowGeometry, multiplier: number): tf.Tensor4D {
+  const inChannels = x.shape[3];
+  const rows = g.batch * g.outHeight * g.outWidth;
+  const taps = extractTaps(x, g, 0).flat();
+  const tapCount = taps.length;
+  // One batched product per channel: [C, taps, rows] · [C, rows, mult] → [C, taps, mult].
+  const patches = tf.reshape(tapCount === 1 ? taps[0]! : tf.concat(taps, 3), [rows, tapCount, inChannels]);
+  const byChannel = tf.transpose(patches, [2, 1, 0]) as tf.Tensor3D;
+  const dyByChannel = tf.transpose(tf.reshape(dy, [rows, inChannels, multiplier]), [1, 0, 2]) as tf.Tensor3D;
+  const product = tf.transpose(tf.matMul(byChannel, dyByChannel), [1, 0, 2]);
+  return tf.reshape(product, [g.filterHeight, g.filterWidth, inChannels, multiplier]);
+}
+
+function depthwiseConv2dNativeBackpropFilter({ inputs, backend, attrs }: Parameters<tf.KernelFunc>[0]): tf.TensorInfo {
+  const x = requireInput(inputs, 'x', 'DepthwiseConv2dNativeBackpropFilter');
+  const dy = requireInput(inputs, 'dy', 'DepthwiseConv2dNativeBackpropFilter');
+  const a = (attrs ?? {}) as unknown as tf.DepthwiseConv2dNativeBackpropFilterAttrs;
+  const filterShape: [number, number, number, number] = [...a.filterShape];
+  const info = tf.backend_util.computeConv2DInfo(
+    shape4(x, 'x'),
+    filterShape,
+    a.strides,
+    pairOf(a.dilations, 1),
+    a.pad,
+    a.dimRoundingMode,
+    true,
+  );
+  const g = windowGeometry(info);
+  return runComposed(asBackend(backend), [x, dy], (xT, dyT) =>
+    depthwiseFilterGradient(xT as tf.Tensor4D, dyT as tf.Tensor4D, g, filterShape[3]),
+  );
+}
+
+export const depthwiseConv2dNativeBackpropFilterConfig: tf.KernelConfig = {
+  kernelName: tf.DepthwiseConv2dNativeBackpropFilter,
+  backendName: 'wasm',
+  kernelFunc: depthwiseConv2dNativeBackpropFilter as tf.KernelFunc,
+};

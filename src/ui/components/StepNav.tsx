@@ -1,0 +1,61 @@
+/** The list of steps on the left, each with a short status. */
+import type { ReactElement } from 'react';
+import { useWorkspace } from '../store/workspace.ts';
+import { SCREENS, type ScreenId, type WorkspaceState } from '../store/state.ts';
+import { percent } from '../lib/format.ts';
+
+const TITLES: Readonly<Record<ScreenId, string>> = {
+  model: 'Model',
+  samples: 'Samples',
+  preprocessing: 'Preprocessing',
+  plan: 'Sweep plan',
+  run: 'Run',
+  results: 'Results',
+  exports: 'Exports',
+};
+
+/** One line of status under a step's title. */
+export function stepStatus(screen: ScreenId, s: WorkspaceState): string {
+  switch (screen) {
+    case 'model':
+      return s.model.busy ? 'loading…' : s.model.value ? `${s.model.value.description.numClasses} classes, ${s.model.value.description.height}×${s.model.value.description.width}` : 'none yet';
+    case 'samples':
+      return s.samples.busy ? 'reading…' : s.samples.value ? `${s.samples.value.count} images` : 'none yet';
+    case 'preprocessing':
+      return s.clean.value ? `clean accuracy ${percent(s.clean.value.accuracy)}` : s.model.value ? 'check what the model sees' : '';
+    case 'plan':
+      return `${s.plan.attacks.map((a) => a.toUpperCase()).join(' + ') || 'no search'} · ${s.plan.norm === 'linf' ? 'L∞' : 'L2'}`;
+    case 'run':
+      return { idle: 'not started', running: 'running…', done: 'finished', cancelled: 'cancelled', failed: 'stopped with a problem' }[s.run.status];
+    case 'results':
+      return s.run.result ? `${s.run.result.curve.length} points` : 'after a run';
+    case 'exports':
+      return s.run.result ? 'ready' : 'after a run';
+  }
+}
+
+/** The step navigation. */
+export function StepNav(): ReactElement {
+  const state = useWorkspace();
+  return (
+    <nav className="steps" aria-label="Steps">
+      <ol>
+        {SCREENS.map((screen, i) => (
+          <li key={screen}>
+            <button
+              type="button"
+              className={state.screen === screen ? 'step current' : 'step'}
+              aria-current={state.screen === screen ? 'step' : undefined}
+              onClick={() => state.goTo(screen)}
+              data-testid={`nav-${screen}`}
+            >
+              <span className="step-number">{i + 1}</span>
+              <span className="step-title">{TITLES[screen]}</span>
+              <span className="step-status">{stepStatus(screen, state)}</span>
+            </button>
+          </li>
+        ))}
+      </ol>
+    </nav>
+  );
+}

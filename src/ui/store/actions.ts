@@ -1,0 +1,216 @@
+/**
+ * What the screens can do: every effect (worker calls, fetching the demo) goes through here and
+ * ends in a store update. A failed load leaves the rest of the workspace as it was.
+ */
+import type { NamedBytes } from '../../core/types.ts';
+import { startEngineWorker, type EngineClient } from '../../worker/client.ts';
+import type { ModelInfo, SamplesInfo } from '../../worker/protocol.ts';
+import { DEMO_PLAN, toSweepConfig } from '../lib/plan.ts';
+import { appUrl, fetchDemoModel, fetchDemoSamples } from '../lib/demo.ts';
+import { useWorkspace } from './workspace.ts';
+import { preprocessingForModel, runEnded, runFailed, runPointAdded, runProgressed, runStarted, type DemoModelId } from './state.ts';
+
+let engine: EngineClient | null = null;
+let controller: AbortController | null = null;
+
+const set = useWorkspace.setState;
+const get = useWorkspace.getState;
+
+function messageOf(err: unknown): string {
+  return err instanceof Error ? err.message : String(err);
+}
+
+function client(): EngineClient {
+  if (engine === null) throw new Error('The engine has not started.');
+  return engine;
+}
+
+/** Start the worker and its backend (threads only with cross-origin isolation). */
+export async function startEngine(): Promise<void> {
+  engine = startEngineWorker();
+  const threads = window.crossOriginIsolated ? Math.max(1, Math.min(navigator.hardwareConcurrency || 1, 4)) : null;
+  try {
+    const info = await engine.call('init', { wasmPath: appUrl('wasm/'), threads });
+    set({ engine: { busy: false, value: info, error: null } });
+  } catch (err) {
+    set({ engine: { busy: false, value: null, error: messageOf(err) } });
+    throw err;
+  }
+}
+
+function applySamples(info: SamplesInfo, label: string, demo: boolean): void {
+  set({ samples: { busy: false, value: { ...info, label, demo }, error: null } });
+}
+
+/** Load model files (a drop, a picker, a .zip, or the demo). */
+export async function loadModel(files: NamedBytes[], source: { key: string; label: string; demo: DemoModelId | null; card: Record<string, unknown> | null }): Promise<boolean> {
+  set((s) => ({ model: { ...s.model, busy: true, error: null } }));
+  let reply: ModelInfo & { samples: SamplesInfo | null; samplesError: string | null };
+  try {
+    reply = await client().loadModel(files);
+  } catch (err) {
+    set((s) => ({ model: { ...s.model, busy: false, error: messageOf(err) } }));
+    return false;
+  }
+  const { samples, samplesError, ...info } = reply;
+  const pre = preprocessingForModel(get().preprocessingByModel, source.key, info.suggestedPreprocessing);
+  set({ model: { busy: false, value: { ...info, ...source }, error: null }, preprocessing: pre, preview: { busy: false, value: null, error: null } });
+  const current = get().samples.value;
+  if (samples !== null && current !== null) applySamples(samples, current.label, current.demo);
+  if (samplesError !== null) set({ samples: { busy: false, value: null, error: `The samples could not be read for this model: ${samplesError}` } });
+  await refreshClean();
+  return true;
+}
+
+/** Load sample files and an optional class-names file. */
+export async function loadSamples(files: NamedBytes[], classNamesFile: NamedBytes | null, label: string, demo = false): Promise<boolean> {
+  set((s) => ({ samples: { ...s.samples, busy: true, error: null } }));
+  try {
+    const info = await client().loadSamples(files, classNamesFile);
+    applySamples(info, label, demo);
+  } catch (err) {
+    set((s) => ({ samples: { ...s.samples, busy: false, error: messageOf(err) } }));
+    return false;
+  }
+  set({ preview: { busy: false, value: null, error: null } });
+  await refreshClean();
+  return true;
+}
+
+/** Recompute clean accuracy when both model and samples are there and fit together. */
+export async function refreshClean(): Promise<void> {
+  const s = get();
+  if (s.model.value === null || s.samples.value === null || s.samples.value.mismatch !== null) {
+    set({ clean: { busy: false, value: null, error: null } });
+    return;
+  }
+  const pre = s.preprocessing;
+  set((st) => ({ clean: { ...st.clean, busy: true, error: null } }));
+  try {
+    const reply = await client().call('clean', { preprocessing: pre });
+    if (get().preprocessing === pre) set({ clean: { busy: false, value: reply, error: null } });
+  } catch (err) {
+    set({ clean: { busy: false, value: null, error: messageOf(err) } });
+  }
+}
+
+/** Ask the worker for a few samples as the model receives them. */
+export async function refreshPreview(count = 6): Promise<void> {
+  const s = get();
+  if (s.model.value === null || s.samples.value === null || s.samples.value.mismatch !== null) return;
+  const pre = s.preprocessing;
+  set((st) => ({ preview: { ...st.preview, busy: true, error: null } }));
+  try {
+    const reply = await client().call('preview', { count, preprocessing: pre });
+    if (get().preprocessing === pre) set({ preview: { busy: false, value: reply, error: null } });
+  } catch (err) {
+    set({ preview: { busy: false, value: null, error: messageOf(err) } });
+  }
+}
+
+/** Load one of the demo models. */
+export async function loadDemoModel(id: DemoModelId): Promise<boolean> {
+  try {
+    const { files, card, label } = await fetchDemoModel(id);
+    return await loadModel(files, { key: `demo:${id}`, label, demo: id, card });
+  } catch (err) {
+    set((s) => ({ model: { ...s.model, busy: false, error: messageOf(err) } }));
+    return false;
+  }
+}
+
+/** Load the demo samples. */
+export async function loadDemoSamples(): Promise<boolean> {
+  try {
+    const { files, label } = await fetchDemoSamples();
+    return await loadSamples(files, null, label, true);
+  } catch (err) {
+    set((s) => ({ samples: { ...s.samples, busy: false, error: messageOf(err) } }));
+    return false;
+  }
+}
+
+/** The demo workspace: the standard demo model (unless a demo model is loaded) and the demo samples. */
+export async function loadDemoWorkspace(model: DemoModelId = 'standard'): Promise<void> {
+  if (get().model.value?.demo == null) await loadDemoModel(model);
+  if (!(get().samples.value?.demo ?? false)) await loadDemoSamples();
+}
+
+/** Start a sweep with the current plan. */
+export async function startRun(fromDemo = false): Promise<void> {
+  const s = get();
+  if (s.run.status === 'running') return;
+  const classCount = s.model.value?.description.numClasses ?? null;
+  const build = toSweepConfig(s.plan, classCount);
+  if (!build.ok) {
+    set({ run: { ...s.run, status: 'failed', error: build.error } });
+    return;
+  }
+  controller = new AbortController();
+  const run = runStarted(s.run, Date.now(), fromDemo, s.samples.value?.classNames ?? []);
+  set({ run, gallery: { runId: run.id, size: null, images: {} } });
+  try {
+    const result = await client().sweep(
+      { config: build.config, preprocessing: s.preprocessing },
+      {
+        signal: controller.signal,
+        onProgress: (p) => set((st) => ({ run: runProgressed(st.run, run.id, p, Date.now()) })),
+        onPoint: (_point, partial) => set((st) => ({ run: runPointAdded(st.run, run.id, partial, Date.now()) })),
+      },
+    );
+    set((st) => ({ run: runEnded(st.run, run.id, result, Date.now()) }));
+    await loadGallery(run.id);
+    if (fromDemo && result.complete) set({ screen: 'results' });
+  } catch (err) {
+    set((st) => ({ run: runFailed(st.run, run.id, messageOf(err), Date.now()) }));
+  } finally {
+    controller = null;
+  }
+}
+
+/** Ask the running sweep to stop; it resolves with the points that finished. */
+export function cancelRun(): void {
+  controller?.abort();
+}
+
+/** The demo button: demo workspace, demo plan, run. */
+export async function runDemo(): Promise<void> {
+  await loadDemoWorkspace(get().model.value?.demo ?? 'standard');
+  set({ plan: DEMO_PLAN, screen: 'run' });
+  await startRun(true);
+}
+
+/** Fetch original and adversarial pixels of every flipped sample of run `runId`. */
+async function loadGallery(runId: number): Promise<void> {
+  const result = get().run.result;
+  if (result === null) return;
+  const items = result.records.flatMap((r) =>
+    Object.entries(r.minFlipEps)
+      .filter(([, eps]) => typeof eps === 'number' && eps > 0)
+      .map(([attack]) => ({ index: r.index, attack: attack as 'fgsm' | 'pgd' })),
+  );
+  if (items.length === 0) return;
+  const reply = await client().call('flipImages', { items });
+  if (get().run.id !== runId) return;
+  const images = Object.fromEntries(reply.images.map((img) => [`${img.attack}|${img.index}`, img]));
+  set({ gallery: { runId, size: { height: reply.height, width: reply.width, channels: reply.channels }, images } });
+}
+
+/** Build an export file in the worker and hand it to the browser's download. */
+export async function downloadExport(kind: 'curve-csv' | 'samples-csv' | 'run-json' | 'adversarial-zip'): Promise<void> {
+  const file = await client().call('exportFile', { kind });
+  saveBytes(file.bytes, file.fileName, file.mimeType);
+}
+
+/** Save bytes as a download. */
+export function saveBytes(bytes: Uint8Array | string, fileName: string, mimeType: string): void {
+  const blob = new Blob([typeof bytes === 'string' ? bytes : (bytes.slice() as Uint8Array<ArrayBuffer>)], { type: mimeType });
+  const url = URL.createObjectURL(blob);
+  const link = document.createElement('a');
+  link.href = url;
+  link.download = fileName;
+  document.body.append(link);
+  link.click();
+  link.remove();
+  setTimeout(() => URL.revokeObjectURL(url), 10_000);
+}
