@@ -48,12 +48,27 @@ function tfjsWasmAssets(): Plugin {
   };
 }
 
+/**
+ * The threaded WASM build starts its helper threads from the source text of its own factory
+ * function (Function.prototype.toString), so that function must survive bundling verbatim: renamed
+ * identifiers, or a compressor dropping its `typeof _scriptDir` guard, break the helper threads.
+ * The worker bundle is therefore not minified.
+ */
+function keepWorkerNames(): Plugin {
+  return {
+    name: 'brink-worker-keep-names',
+    outputOptions(options) {
+      return { ...options, minify: false };
+    },
+  };
+}
+
 export default defineConfig({
   base: './',
   plugins: [react(), tfjsWasmAssets()],
   server: { headers: ISOLATION_HEADERS },
   preview: { headers: ISOLATION_HEADERS },
-  worker: { format: 'es' },
+  worker: { format: 'es', plugins: () => [keepWorkerNames()] },
   build: {
     target: 'es2022',
     // tfjs and Plotly are large by nature; they load once and are cached.

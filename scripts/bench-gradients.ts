@@ -69,8 +69,8 @@ function median(values: readonly number[]): number {
 
 function makeRunners(model: tf.LayersModel, x: tf.Tensor4D, labels: tf.Tensor2D) {
   const logits = (input: tf.Tensor4D): tf.Tensor2D => model.apply(input, { training: false }) as tf.Tensor2D;
-  const loss = (input: tf.Tensor4D): tf.Scalar =>
-    tf.losses.softmaxCrossEntropy(labels, logits(input), undefined, 0, tf.Reduction.SUM) as tf.Scalar;
+  const loss = (input: tf.Tensor): tf.Scalar =>
+    tf.losses.softmaxCrossEntropy(labels, logits(input as tf.Tensor4D), undefined, 0, tf.Reduction.SUM) as tf.Scalar;
   const gradient = tf.grad(loss);
   return {
     forward: (): void => {

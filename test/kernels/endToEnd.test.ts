@@ -26,7 +26,7 @@ async function gradientOn(backend: 'wasm' | 'cpu', f: (x: tf.Tensor4D) => tf.Ten
   await switchBackend(backend);
   return tf.tidy(() => {
     const weights = tf.tensor(w.values, w.shape);
-    const g = tf.grad((input: tf.Tensor4D) => tf.sum(tf.mul(f(input), weights)))(tf.tensor4d(x.values, x.shape as [number, number, number, number]));
+    const g = tf.grad((input: tf.Tensor) => tf.sum(tf.mul(f(input as tf.Tensor4D), weights)))(tf.tensor4d(x.values, x.shape as [number, number, number, number]));
     return g.dataSync() as Float32Array;
   });
 }

@@ -58,6 +58,22 @@ describe('MaxPoolGrad (wasm, Brink)', () => {
     }
   });
 
+  it('treats −∞ and NaN like the tfjs cpu kernel (skipped; a window of −∞ passes nothing)', async () => {
+    const rng = createRng(404);
+    const x = randomTensor(rng, [2, 7, 7, 3]);
+    for (let i = 0; i < x.values.length; i++) {
+      const u = rng.next();
+      if (u < 0.15) x.values[i] = -Infinity;
+      else if (u < 0.25) x.values[i] = NaN;
+    }
+    x.values.fill(-Infinity, 0, 3 * 7 * 3); // rows 0–2 of the first image: whole windows of −∞
+    const c = { filterShape: [3, 3, 3, 1], strides: [2, 2], pad: 'same' } as unknown as WindowCase;
+    const { inputs, attrs } = await poolInputs(c, x, rng);
+    const { wasm, cpu } = await runOnBoth(tf.MaxPoolGrad, inputs, attrs);
+    // Reference: tfjs cpu backend MaxPoolGrad (running maximum from −∞, strict >).
+    expectClose(wasm.values, cpu.values, ATOL, 0, 'non-finite inputs');
+  });
+
   it('keeps the gradient of all-negative windows, which the stock wasm kernel loses', async () => {
     const rng = createRng(403);
     const shape = [2, 8, 8, 3];

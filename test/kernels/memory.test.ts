@@ -53,8 +53,8 @@ describe('memory', () => {
     const labels = randomLabels(rng, 3, 5);
     const x = tf.tensor4d(rng.normalArray(3 * 12 * 12 * 2), [3, 12, 12, 2]);
     const filter = tf.tensor4d(rng.normalArray(3 * 3 * 2 * 2), [3, 3, 2, 2]);
-    const fusedDepthwise = tf.grad((input: tf.Tensor4D) =>
-      tf.sum(tf.fused.depthwiseConv2d({ x: input, filter, strides: 2, pad: 'same', activation: 'linear' })),
+    const fusedDepthwise = tf.grad((input: tf.Tensor) =>
+      tf.sum(tf.fused.depthwiseConv2d({ x: input as tf.Tensor4D, filter, strides: 2, pad: 'same', activation: 'linear' })),
     );
     const counts: Array<[number, number]> = [];
     for (let i = 0; i < 4; i++) {

@@ -42,9 +42,9 @@ export function buildConvBnModel(rng: Rng): tf.LayersModel {
 /** Gradient of the summed softmax cross-entropy of the logits with respect to the input. */
 export function crossEntropyInputGradient(model: tf.LayersModel, x: tf.Tensor4D, labels: tf.Tensor2D): tf.Tensor4D {
   return tf.tidy(() => {
-    const loss = (input: tf.Tensor4D): tf.Scalar =>
+    const loss = (input: tf.Tensor): tf.Scalar =>
       tf.losses.softmaxCrossEntropy(labels, model.apply(input, { training: false }) as tf.Tensor2D, undefined, 0, tf.Reduction.SUM) as tf.Scalar;
-    return tf.grad(loss)(x);
+    return tf.grad(loss)(x) as tf.Tensor4D;
   });
 }
 

@@ -6,6 +6,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import * as tf from '@tensorflow/tfjs';
 import { useBackend } from '../helpers/backend.ts';
 import { loadModelFromFiles } from '../../src/core/models/loadModel.ts';
+import { MALFORMED_PREFIX } from '../../src/core/onnx/errors.ts';
 import type { NamedBytes } from '../../src/core/types.ts';
 import { closedFormParameters, layersModelFiles, layersModelToFiles, randomWeights, type SmallNetSpec } from './fixtures.ts';
 import { graphModelFiles } from './graphFixture.ts';
@@ -132,6 +133,13 @@ describe('loading errors', () => {
     await expect(loadModelFromFiles([text('model.json', JSON.stringify(json)), ...files.slice(1)])).rejects.toThrow(
       /node "body\/loop" uses the StatelessWhile op/,
     );
+  });
+
+  it('an .onnx file among the files goes to the ONNX loader', async () => {
+    const tfjsFiles = await layersModelFiles(SPEC, WEIGHTS);
+    const garbage = { name: 'upload/net.onnx', bytes: new Uint8Array([0xff, 0xff, 0xff, 0x07]) };
+    // The ONNX loader's own malformed-file message shows the file reached it (and not the tfjs path).
+    await expect(loadModelFromFiles([...tfjsFiles, garbage])).rejects.toThrow(MALFORMED_PREFIX);
   });
 
   it('more than one .onnx file', async () => {

@@ -4,14 +4,23 @@
 import type { AttackId, AttackMethod } from './types.ts';
 import { fgsm, type FgsmOptions } from './fgsm.ts';
 import { pgd, type PgdOptions } from './pgd.ts';
+import { apgdCe, apgdDlr, type ApgdOptions } from './apgd.ts';
+import { square, type SquareOptions } from './square.ts';
+import { deepfool, type DeepFoolOptions } from './deepfool.ts';
+import { noise, type NoiseOptions } from './noise.ts';
 
 /** Every attack, in the order menus and the CLI list them. */
-export const ATTACKS: readonly AttackMethod<unknown>[] = [fgsm, pgd];
+export const ATTACKS: readonly AttackMethod<unknown>[] = [fgsm, pgd, apgdCe, apgdDlr, square, deepfool, noise];
 
-/** Options type of each attack id (for typed use, import `fgsm` / `pgd` from their files). */
+/** Options type of each attack id (for typed use, import the attack itself from its file). */
 export interface AttackOptionsById {
   fgsm: FgsmOptions;
   pgd: PgdOptions;
+  'apgd-ce': ApgdOptions;
+  'apgd-dlr': ApgdOptions;
+  square: SquareOptions;
+  deepfool: DeepFoolOptions;
+  noise: NoiseOptions;
 }
 
 /**

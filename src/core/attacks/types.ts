@@ -6,7 +6,7 @@ import type { LogitsFn, Norm } from '../types.ts';
 import type { Rng } from '../random/rng.ts';
 
 /** Identifiers used in configuration, CSV files and on the command line (lower case). */
-export type AttackId = 'fgsm' | 'pgd';
+export type AttackId = 'fgsm' | 'pgd' | 'apgd-ce' | 'apgd-dlr' | 'square' | 'deepfool' | 'noise';
 
 /** Loss maximised by gradient searches; both are computed from logits. */
 export type LossKind = 'ce' | 'margin';

@@ -84,6 +84,7 @@ class GraphCompiler {
     for (const init of this.graph.initializers) this.setHost(init.name, decodeTensorData(init, `initializer "${init.name}"`));
     const { name: inputName, meta: inputMeta } = this.imageInput();
     this.metas.set(inputName, inputMeta);
+    this.checkOperators();
     this.graph.nodes.forEach((node, index) => this.compileNode(node, index));
     const [first, ...rest] = this.graph.outputs;
     if (first === undefined) throw new OnnxLoadError('The ONNX graph declares no output.');
@@ -119,18 +120,34 @@ class GraphCompiler {
     return { name: input.name, meta: { shape, dtype: 'float32' } };
   }
 
+  /** Before any work: the first control-flow node, else the first unsupported one (listing all unsupported types). */
+  private checkOperators(): void {
+    const nodes = this.graph.nodes;
+    const flow = nodes.findIndex((n) => CONTROL_FLOW.has(n.opType));
+    if (flow >= 0) {
+      throw nodeError(nodes[flow]!, flow, this.opset, 'control flow (If, Loop, Scan) is not supported; export the model with its control flow unrolled (static shapes, no data-dependent branches)');
+    }
+    const unsupported = (n: NodeProto): boolean => (n.domain !== '' && n.domain !== 'ai.onnx') || OPERATORS[n.opType] === undefined;
+    const first = nodes.findIndex(unsupported);
+    if (first < 0) return;
+    const node = nodes[first]!;
+    const others = [...new Set(nodes.filter(unsupported).map((n) => n.opType))].filter((t) => t !== node.opType);
+    const also = others.length > 0 ? ` (also unsupported here: ${others.join(', ')})` : '';
+    const what = node.domain !== '' && node.domain !== 'ai.onnx'
+      ? `operator ${node.opType} of domain "${node.domain}" is not supported (only the default ONNX domain)`
+      : `operator ${node.opType} is not supported`;
+    throw nodeError(node, first, this.opset, `${what}${also}; see src/core/onnx/README.md for the supported operators and how to add one`);
+  }
+
   private compileNode(node: NodeProto, index: number): void {
     const fail = (message: string): never => {
       throw nodeError(node, index, this.opset, message);
     };
-    if (node.domain !== '' && node.domain !== 'ai.onnx') fail(`operators of domain "${node.domain}" are not supported (only the default ONNX domain)`);
-    if (CONTROL_FLOW.has(node.opType)) fail('control flow (If, Loop, Scan) is not supported; export the model with its control flow unrolled (static shapes, no data-dependent branches)');
-    const compiler = OPERATORS[node.opType];
-    if (compiler === undefined) fail(`operator ${node.opType} is not supported; see src/core/onnx/README.md for the supported operators and how to add one`);
+    const compiler = OPERATORS[node.opType]!;
     const ctx = this.contextFor(node, fail);
     let result: OpResult;
     try {
-      result = compiler!(ctx);
+      result = compiler(ctx);
     } catch (err) {
       if (err instanceof OnnxLoadError) throw err;
       fail(err instanceof Error ? err.message : String(err));

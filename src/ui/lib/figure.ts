@@ -41,6 +41,7 @@ export function curveTraces(points: readonly CurvePoint[], cleanAccuracy: number
       type: 'scatter',
       x: [...xs, ...[...xs].reverse()],
       y: [...list.map((p) => p.ci95High), ...[...list].reverse().map((p) => p.ci95Low)],
+      mode: 'lines',
       fill: 'toself',
       fillcolor: bandColour(colour),
       line: { width: 0 },

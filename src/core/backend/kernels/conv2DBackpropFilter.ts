@@ -1,14 +1,13 @@
 /**
  * Conv2DBackpropFilter for the wasm backend, which has none (tfjs 4.22): any fused conv2d with a
  * linear activation (e.g. conv → batch-norm) computes it inside its gradient, even when only the
- * input gradient is wanted. Written as im2col: every filter tap's strided view of the padded input
- * is laid side by side into a patch matrix, and one matrix product with dy gives the filter
- * gradient.
+ * input gradient is wanted. Written as im2col: the window taps of the padded input form a patch
+ * matrix (taps.ts), and one matrix product with dy gives the filter gradient.
  */
 import * as tf from '@tensorflow/tfjs';
 import { asBackend, pairOf, requireInput, runComposed, shape4 } from './composed.ts';
 import { toChannelsLast, windowGeometry } from './spatial.ts';
-import { extractTaps } from './taps.ts';
+import { extractTaps, tapCount } from './taps.ts';
 import type { WindowGeometry } from './spatial.ts';
 
 /**
@@ -18,11 +17,12 @@ import type { WindowGeometry } from './spatial.ts';
 export function conv2dFilterGradient(x: tf.Tensor4D, dy: tf.Tensor4D, g: WindowGeometry): tf.Tensor4D {
   const inChannels = x.shape[3];
   const outChannels = dy.shape[3];
-  const taps = extractTaps(x, g, 0).flat();
   const rows = g.batch * g.outHeight * g.outWidth;
-  const patches = tf.reshape(taps.length === 1 ? taps[0]! : tf.concat(taps, 3), [rows, g.filterHeight * g.filterWidth * inChannels]);
+  // Patch matrix [rows, C·taps] (column c·taps + t), then [C·taps, outC] = patchesᵀ · dy.
+  const patches = tf.reshape(extractTaps(x, g, 0), [rows, inChannels * tapCount(g)]);
   const product = tf.matMul(patches, tf.reshape(dy, [rows, outChannels]), true, false);
-  return tf.reshape(product, [g.filterHeight, g.filterWidth, inChannels, outChannels]);
+  const byChannel = tf.reshape(product, [inChannels, g.filterHeight, g.filterWidth, outChannels]);
+  return tf.transpose(byChannel, [1, 2, 0, 3]) as tf.Tensor4D;
 }
 
 function conv2DBackpropFilter({ inputs, backend, attrs }: Parameters<tf.KernelFunc>[0]): tf.TensorInfo {

@@ -1,14 +1,14 @@
 /**
  * DepthwiseConv2dNativeBackpropFilter for the wasm backend, which has none (tfjs 4.22). A fused
  * depthwise conv with a linear activation (e.g. depthwise → batch-norm in a converted graph)
- * computes it inside its gradient even when only the input gradient is wanted. Every filter tap's
- * view of the padded input times dy, summed over batch and positions: one batched matrix product
+ * computes it inside its gradient even when only the input gradient is wanted. The window taps of
+ * the padded input (taps.ts) times dy, summed over batch and positions: one batched matrix product
  * per channel.
  */
 import * as tf from '@tensorflow/tfjs';
 import { asBackend, pairOf, requireInput, runComposed, shape4 } from './composed.ts';
 import { windowGeometry } from './spatial.ts';
-import { extractTaps } from './taps.ts';
+import { extractTaps, tapCount } from './taps.ts';
 import type { WindowGeometry } from './spatial.ts';
 
 /**
@@ -17,14 +17,12 @@ import type { WindowGeometry } from './spatial.ts';
  */
 export function depthwiseFilterGradient(x: tf.Tensor4D, dy: tf.Tensor4D, g: WindowGeometry, multiplier: number): tf.Tensor4D {
   const inChannels = x.shape[3];
+  const taps = tapCount(g);
   const rows = g.batch * g.outHeight * g.outWidth;
-  const taps = extractTaps(x, g, 0).flat();
-  const tapCount = taps.length;
   // One batched product per channel: [C, taps, rows] · [C, rows, mult] → [C, taps, mult].
-  const patches = tf.reshape(tapCount === 1 ? taps[0]! : tf.concat(taps, 3), [rows, tapCount, inChannels]);
-  const byChannel = tf.transpose(patches, [2, 1, 0]) as tf.Tensor3D;
+  const patches = tf.transpose(tf.reshape(extractTaps(x, g, 0), [rows, inChannels, taps]), [1, 2, 0]) as tf.Tensor3D;
   const dyByChannel = tf.transpose(tf.reshape(dy, [rows, inChannels, multiplier]), [1, 0, 2]) as tf.Tensor3D;
-  const product = tf.transpose(tf.matMul(byChannel, dyByChannel), [1, 0, 2]);
+  const product = tf.transpose(tf.matMul(patches, dyByChannel), [1, 0, 2]);
   return tf.reshape(product, [g.filterHeight, g.filterWidth, inChannels, multiplier]);
 }
 

@@ -38,11 +38,32 @@ function convWindow(ctx: OpContext, height: number, width: number, filterShape: 
 }
 
 /** Rearrange ONNX filters for tfjs: conv2d wants [kH, kW, C/g, M]; depthwise wants [kH, kW, C, M/C]. */
-function tfFilter(weight: tf.Tensor, depthwise: boolean, channels: number): tf.Tensor4D {
+function tfFilter(weight: tf.Tensor, plan: ConvPlan): tf.Tensor4D {
+  return dilateFilter(rearrangeFilter(weight, plan.depthwise, plan.channels), plan.dilations);
+}
+
+function rearrangeFilter(weight: tf.Tensor, depthwise: boolean, channels: number): tf.Tensor4D {
   if (!depthwise) return tf.transpose(weight, [2, 3, 1, 0]) as tf.Tensor4D;
   const [m, , kh, kw] = weight.shape as [number, number, number, number];
   // ONNX output channel m reads input channel floor(m / multiplier), as tfjs's c·multiplier + q does.
-  return tf.transpose(weight.reshape([channels, m / channels, kh!, kw!]), [2, 3, 0, 1]) as tf.Tensor4D;
+  return tf.transpose(weight.reshape([channels, m / channels, kh, kw]), [2, 3, 0, 1]) as tf.Tensor4D;
+}
+
+/**
+ * A filter with zeros between its taps ([kH, kW, …] → [(kH − 1)·dH + 1, (kW − 1)·dW + 1, …]).
+ * Why: tfjs has no gradient for dilated convolutions; convolving with the spread-out filter at
+ * dilation 1 is the same function and differentiates normally.
+ */
+export function dilateFilter(filter: tf.Tensor4D, [dh, dw]: Pair): tf.Tensor4D {
+  const spread = (t: tf.Tensor4D, axis: 0 | 1, d: number): tf.Tensor4D => {
+    if (d === 1) return t;
+    const shape = t.shape;
+    const k = shape[axis];
+    const withGaps = tf.pad(tf.expandDims(t, axis + 1), [[0, 0], [0, 0], [0, 0], [0, 0], [0, 0]].map((p, i) => (i === axis + 1 ? [0, d - 1] : p)) as [number, number][]);
+    const merged = withGaps.reshape(shape.map((s, i) => (i === axis ? s * d : s)));
+    return tf.slice(merged, [0, 0, 0, 0], shape.map((s, i) => (i === axis ? (k - 1) * d + 1 : s))) as tf.Tensor4D;
+  };
+  return spread(spread(filter, 0, dh), 1, dw);
 }
 
 interface ConvPlan {
@@ -57,11 +78,12 @@ interface ConvPlan {
 function convolve(x: tf.Tensor4D, filter: tf.Tensor4D, plan: ConvPlan): tf.Tensor4D {
   const input: tf.Tensor4D = plan.padding.explicit !== undefined ? tf.pad(x, plan.padding.explicit) : x;
   const { pad } = plan.padding;
-  if (plan.depthwise) return tf.depthwiseConv2d(input, filter, plan.strides, pad, 'NHWC', plan.dilations) as tf.Tensor4D;
-  if (plan.group === 1) return tf.conv2d(input, filter, plan.strides, pad, 'NHWC', plan.dilations);
+  // The filter is already dilated (dilateFilter), so tfjs convolves at dilation 1.
+  if (plan.depthwise) return tf.depthwiseConv2d(input, filter, plan.strides, pad, 'NHWC') as tf.Tensor4D;
+  if (plan.group === 1) return tf.conv2d(input, filter, plan.strides, pad, 'NHWC');
   const inputs = tf.split(input, plan.group, 3) as tf.Tensor4D[];
   const filters = tf.split(filter, plan.group, 3) as tf.Tensor4D[];
-  const outputs = inputs.map((part, g) => tf.conv2d(part, filters[g]!, plan.strides, pad, 'NHWC', plan.dilations));
+  const outputs = inputs.map((part, g) => tf.conv2d(part, filters[g]!, plan.strides, pad, 'NHWC'));
   return tf.concat(outputs, 3);
 }
 
@@ -95,11 +117,11 @@ function readsOf(ctx: OpContext): number[] {
 function convKernel(ctx: OpContext, plan: ConvPlan): Kernel {
   const weightHost = ctx.host(1);
   const biasHost = ctx.has(2) ? ctx.host(2) : undefined;
-  const fixedFilter = weightHost && ctx.keep(tf.tidy(() => tfFilter(hostToTensor(weightHost), plan.depthwise, plan.channels)));
+  const fixedFilter = weightHost && ctx.keep(tf.tidy(() => tfFilter(hostToTensor(weightHost), plan)));
   const fixedBias = biasHost && ctx.keep(hostToTensor(biasHost));
   const hasBias = ctx.has(2);
   return ({ input }) => {
-    const filter = fixedFilter ?? tfFilter(input(1).canonical(), plan.depthwise, plan.channels);
+    const filter = fixedFilter ?? tfFilter(input(1).canonical(), plan);
     let y = convolve(input(0).channelsLast(), filter, plan);
     if (hasBias) y = tf.add(y, fixedBias ?? input(2).canonical());
     return [Operand.channelsLast(y)];

@@ -1,0 +1,74 @@
+/**
+ * Forward/backward measurements at the clean inputs for two health checks: whether each sample's
+ * input gradient is finite and non-zero, and whether the model's probability outputs saturate to
+ * exact float32 zeros and ones.
+ */
+import * as tf from '@tensorflow/tfjs';
+import { lossAndInputGradient } from '../attacks/losses.ts';
+import { gatherBatch } from '../sweep/evaluate.ts';
+import type { LogitsFn, SampleSet } from '../types.ts';
+
+/** Samples of `samples` in batches of `batchSize`, as index lists. */
+function batches(count: number, batchSize: number): number[][] {
+  const out: number[][] = [];
+  for (let start = 0; start < count; start += batchSize) {
+    out.push(Array.from({ length: Math.min(batchSize, count - start) }, (_, i) => start + i));
+  }
+  return out;
+}
+
+/**
+ * Counts samples whose cross-entropy input gradient (taken from the logits, as the searches take it)
+ * has a non-finite entry, and samples whose gradient is exactly zero everywhere.
+ */
+export async function measureGradients(logits: LogitsFn, samples: SampleSet, batchSize: number): Promise<{ samples: number; nonFinite: number; zero: number }> {
+  let nonFinite = 0;
+  let zero = 0;
+  for (const indices of batches(samples.labels.length, batchSize)) {
+    const { x, labels } = gatherBatch(samples, indices);
+    try {
+      const [finite, largest] = tf.tidy(() => {
+        const { grad } = lossAndInputGradient(logits, x, labels, 'ce', null);
+        const flat = tf.reshape(grad, [indices.length, -1]);
+        const isFinite = tf.all(tf.isFinite(flat), 1);
+        // Non-finite entries are replaced before the max so that a NaN cannot hide a zero gradient's verdict.
+        const magnitude = tf.max(tf.abs(tf.where(tf.isFinite(flat), flat, tf.zerosLike(flat))), 1);
+        return [isFinite, magnitude];
+      });
+      const [f, m] = await Promise.all([finite.data(), largest.data()]);
+      tf.dispose([finite, largest]);
+      for (let i = 0; i < indices.length; i++) {
+        if (f[i] === 0) nonFinite++;
+        else if (m[i] === 0) zero++;
+      }
+    } finally {
+      tf.dispose([x, labels]);
+    }
+  }
+  return { samples: samples.labels.length, nonFinite, zero };
+}
+
+/**
+ * Rows of the model's own output (probabilities) at the clean inputs that are saturated in float32:
+ * the top probability is exactly 1 and some class's is exactly 0. The log of such a row is flat in
+ * every class at 0 (log(1) = 0, and the log-probability of a zero class is a constant floor), so no
+ * loss computed from it has a gradient there.
+ */
+export async function measureSaturation(outputs: LogitsFn, samples: SampleSet, batchSize: number): Promise<{ rows: number; saturatedRows: number }> {
+  let saturatedRows = 0;
+  for (const indices of batches(samples.labels.length, batchSize)) {
+    const { x, labels } = gatherBatch(samples, indices);
+    try {
+      const saturated = tf.tidy(() => {
+        const p = outputs(x);
+        return tf.logicalAnd(tf.equal(tf.max(p, 1), 1), tf.equal(tf.min(p, 1), 0));
+      });
+      const values = await saturated.data();
+      saturated.dispose();
+      for (const v of values) if (v !== 0) saturatedRows++;
+    } finally {
+      tf.dispose([x, labels]);
+    }
+  }
+  return { rows: samples.labels.length, saturatedRows };
+}
