@@ -96,14 +96,14 @@ function pickColours(rng: Rng): { paint: Rgb; floor: Rgb } {
   for (let attempt = 0; attempt < 20; attempt++) {
     const grey = uniform(rng, 0.22, 0.72);
     floor = jitter(rng, [grey, grey * uniform(rng, 0.95, 1.03), grey * uniform(rng, 0.9, 1.05)], 0.03);
-    if (Math.abs(luminance(floor) - luminance(paint)) >= 0.18) break;
+    if (Math.abs(luminance(floor) - luminance(paint)) >= 0.15) break;
   }
   return { paint, floor };
 }
 
 /** Per-pixel paint opacity after wear: blotches of missing paint and fine speckle. */
 function paintAlpha(coverage: Float32Array, rng: Rng): Float32Array {
-  const opacity = uniform(rng, 0.75, 1);
+  const opacity = uniform(rng, 0.55, 1);
   const wear = uniform(rng, 0, 0.35);
   const speckle = uniform(rng, 0, 0.08);
   const blotches = makeValueNoise(rng, 6);
@@ -159,10 +159,10 @@ function addScratches(image: Float32Array, rng: Rng): void {
 
 /** Uneven lighting (brightness and a linear gradient), sensor noise, clipping and 8-bit rounding. */
 function lightAndQuantise(image: Float32Array, rng: Rng): void {
-  const brightness = uniform(rng, 0.75, 1.2);
+  const brightness = uniform(rng, 0.6, 1.15);
   const gx = uniform(rng, -0.25, 0.25);
   const gy = uniform(rng, -0.25, 0.25);
-  const sigma = uniform(rng, 0.005, 0.03);
+  const sigma = uniform(rng, 0.002, 0.015);
   for (let i = 0; i < MARKER_SIZE * MARKER_SIZE; i++) {
     const x = (i % MARKER_SIZE) / (MARKER_SIZE - 1) - 0.5;
     const y = Math.floor(i / MARKER_SIZE) / (MARKER_SIZE - 1) - 0.5;

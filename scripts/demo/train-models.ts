@@ -7,7 +7,6 @@
  * Run: npm run demo:train   (seeded: the same code gives the same models on the same backend)
  * Options for quicker trials: --train-images=N --standard-epochs=N --hardened-epochs=N
  */
-import fs from 'node:fs';
 import path from 'node:path';
 import * as tf from '@tensorflow/tfjs';
 import { initBackend, formatBackend } from '../../src/core/backend/initBackend.ts';
@@ -28,7 +27,7 @@ export const SETTINGS = {
   batchSize: 64,
   standardEpochs: 6,
   standardLearningRate: 1e-3,
-  hardenedEpochs: 3,
+  hardenedEpochs: 6,
   hardenedLearningRate: 5e-4,
   adversary: { eps: 4 / 255, steps: 3, stepSize: (2.5 * (4 / 255)) / 3 } satisfies Adversary,
   evalEps: [2 / 255, 4 / 255, 8 / 255],
@@ -104,7 +103,6 @@ async function main(): Promise<void> {
 
   const dirs = { standard: path.join(MODELS_DIR, 'standard'), hardened: path.join(MODELS_DIR, 'hardened') };
   for (const [name, model] of [['standard', standard], ['hardened', hardened]] as const) {
-    fs.rmSync(dirs[name], { recursive: true, force: true });
     const bytes = await saveMarkerModel(model, dirs[name]);
     console.log(`${name}: saved ${dirs[name]} (${(bytes / 1024).toFixed(0)} KiB, ${model.countParams()} parameters)`);
   }
