@@ -8,7 +8,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { useBackend } from '../helpers/backend.ts';
 import { loadOnnxModel } from '../../src/core/onnx/loadOnnx.ts';
 import { OnnxLoadError } from '../../src/core/onnx/errors.ts';
-import { readFixture } from './fixtures.ts';
+import { readFixture, seededInputs } from './fixtures.ts';
 
 async function loadError(bytes: Uint8Array, name = 'model.onnx'): Promise<OnnxLoadError> {
   try {
@@ -73,5 +73,26 @@ describe('ONNX load errors', () => {
     expect(png.message).toMatch(/^Not a readable ONNX file "image.png": malformed protobuf/);
     const empty = await loadError(new Uint8Array(0), 'empty.onnx');
     expect(empty.message).toBe('Not a readable ONNX file "empty.onnx": it holds no graph; the file is truncated or is not an ONNX model.');
+  });
+
+  it('never fails with anything but OnnxLoadError on damaged copies of a valid file', async () => {
+    // Seeded byte damage (common practice for parsers): each copy must load or be refused cleanly.
+    const original = readFixture('view_flatten_opset11.onnx').bytes;
+    const draws = seededInputs(3 * 200, 99);
+    let refused = 0;
+    for (let k = 0; k < 200; k++) {
+      const bytes = original.slice();
+      const at = Math.floor(draws[3 * k]! * bytes.length);
+      bytes[at] = Math.floor(draws[3 * k + 1]! * 256);
+      const cut = draws[3 * k + 2]! < 0.2 ? Math.floor(draws[3 * k + 2]! * 5 * bytes.length) : bytes.length;
+      try {
+        (await loadOnnxModel({ name: 'damaged.onnx', bytes: bytes.slice(0, cut) })).dispose();
+      } catch (err) {
+        if (!(err instanceof OnnxLoadError)) throw err;
+        refused++;
+      }
+    }
+    console.log(`damaged copies refused: ${refused} of 200`);
+    expect(refused).toBeGreaterThan(0);
   });
 });

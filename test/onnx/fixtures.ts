@@ -32,6 +32,11 @@ export interface FixtureFile {
   readonly model: string | null;
   readonly opset: number;
   readonly dynamicBatch: boolean;
+  /** Node count per op type as the onnx Python package reads the file. */
+  readonly ops: Record<string, number>;
+  /** producer_name (and producer_version) as the onnx Python package reads them. */
+  readonly producer: string;
+  readonly layout: 'nchw' | 'nhwc';
 }
 
 export interface FixtureIndex {

@@ -37,11 +37,12 @@ for (const backend of BACKENDS) {
 
     for (const fixture of index.files) {
       it(`${fixture.file} (opset ${fixture.opset})`, async () => {
+        const beforeLoad = tf.memory().numTensors;
         const model = await loadOnnxModel(readFixture(fixture.file));
         try {
           const d = model.description;
-          expect(d.layout).toBe('nchw');
-          const dims = [4, d.channels, d.height, d.width];
+          expect(d.layout).toBe(fixture.layout);
+          const dims = d.layout === 'nchw' ? [4, d.channels, d.height, d.width] : [4, d.height, d.width, d.channels];
           // PyTorch fixtures: the stored images; hand-built graphs: seeded values in [0, 1).
           const input = fixture.model !== null ? toNchw(images, imageShape) : seededInputs(dims.reduce((a, b) => a * b, 1), 11);
           const before = tf.memory().numTensors;
@@ -54,6 +55,7 @@ for (const backend of BACKENDS) {
         } finally {
           model.dispose();
         }
+        expect(tf.memory().numTensors).toBe(beforeLoad); // dispose releases every weight tensor
       });
     }
   });

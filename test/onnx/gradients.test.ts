@@ -35,6 +35,12 @@ function centralDifference(logitsFn: LogitsFn, v: Float32Array, h: number): numb
   return (lossAt(logitsFn, plus) - lossAt(logitsFn, minus)) / (2 * h);
 }
 
+function firstOfModel(file: string): boolean {
+  const all = exportedFixtures();
+  const mine = all.find((f) => f.file === file)!;
+  return all.find((f) => f.model === mine.model)!.file === file;
+}
+
 for (const backend of BACKENDS) {
   describe(`ONNX input gradients (${backend})`, () => {
     const log = new DifferenceLog();
@@ -49,13 +55,15 @@ for (const backend of BACKENDS) {
         try {
           const logitsFn = makeLogitsFn(model, preprocessingFor(model.description));
           const before = tf.memory().numTensors;
-          const grad = tf.tidy(() => tf.grad((x: tf.Tensor4D) => summedCrossEntropy(logitsFn, x))(tf.tensor4d(images, imageShape)).dataSync());
+          const grad = Float32Array.from(tf.tidy(() => tf.grad((x) => summedCrossEntropy(logitsFn, x as tf.Tensor4D))(tf.tensor4d(images, imageShape)).dataSync()));
           expect(tf.memory().numTensors).toBe(before);
 
           const torch = relativeDifference(grad, referenceArray(index.models[fixture.model!]!.gradient));
           log.add(`${fixture.file} vs PyTorch`, torch);
           expect(torch.rel).toBeLessThanOrEqual(1e-4); // source: PyTorch autograd, x.grad of the summed cross-entropy
 
+          // Finite differences once per model (the PyTorch check above covers every exported opset).
+          if (!firstOfModel(fixture.file)) return;
           // Directional derivatives along unit (L2) directions, h = 1e-2: the gradient's own direction
           // (there ⟨∇L, v⟩ = ‖∇L‖₂) and a random ±1 pattern; errors are measured against ‖∇L‖₂.
           const norm = Math.sqrt(grad.reduce((s, g) => s + g * g, 0));

@@ -145,14 +145,13 @@ class GraphCompiler {
     };
     const compiler = OPERATORS[node.opType]!;
     const ctx = this.contextFor(node, fail);
-    let result: OpResult;
+    // tfjs errors while translating or folding (e.g. a shape it rejects) become node errors.
     try {
-      result = compiler(ctx);
+      this.record(node, compiler(ctx), ctx, fail, index);
     } catch (err) {
       if (err instanceof OnnxLoadError) throw err;
       fail(err instanceof Error ? err.message : String(err));
     }
-    this.record(node, result!, ctx, fail, index);
   }
 
   private contextFor(node: NodeProto, fail: (m: string) => never): OpContext {

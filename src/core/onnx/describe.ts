@@ -77,7 +77,7 @@ export function describeOnnx(model: ModelProto, graph: GraphProto, compiled: Com
   if (fixedBatch !== null) notes.push(`The graph was exported for a fixed batch size of ${fixedBatch}; Brink runs it ${fixedBatch} image${fixedBatch === 1 ? '' : 's'} at a time.`);
   if (compiled.extraOutputs.length > 0) notes.push(`Only the first output ("${compiled.outputName}") is used; ignored: ${compiled.extraOutputs.map((o) => `"${o}"`).join(', ')}.`);
   if (compiled.opset < TESTED_OPSETS.min || compiled.opset > TESTED_OPSETS.max) {
-    notes.push(`Opset ${compiled.opset} is outside the range Brink is tested on (${TESTED_OPSETS.min}–${TESTED_OPSETS.max}).`);
+    notes.push(`Opset ${compiled.opset} is outside the opsets Brink is tested on end to end (${TESTED_OPSETS.min}–${TESTED_OPSETS.max}).`);
   }
   const outputKind = detectOutputKind(compiled, notes);
   const onnx: OnnxDetails = {

@@ -8,7 +8,7 @@ import { compileGraph, defaultOpset, type CompiledGraph } from './compile.ts';
 import { describeOnnx } from './describe.ts';
 import { MALFORMED_PREFIX, OnnxLoadError } from './errors.ts';
 import { ProtobufError } from './protobuf.ts';
-import { runGraph } from './runtime.ts';
+import { runGraph, type RuntimeGraph } from './runtime.ts';
 import { decodeModel, type GraphProto, type ModelProto } from './schema.ts';
 import { BATCH } from './symbolic.ts';
 
@@ -78,7 +78,9 @@ export async function loadOnnxModel(file: NamedBytes): Promise<LoadedModel> {
     const description = describeOnnx(model, graph, compiled, declared, fixedBatch);
     const expected = compiled.inputMeta.shape.slice(1) as number[];
     const k = description.numClasses;
-    const runChunk = (x: tf.Tensor): tf.Tensor => runGraph(compiled, x).reshape([x.shape[0]!, k]);
+    const runtime: RuntimeGraph = { inputName: compiled.inputName, steps: compiled.steps, output: compiled.output };
+    const kept = compiled.kept;
+    const runChunk = (x: tf.Tensor): tf.Tensor => runGraph(runtime, x).reshape([x.shape[0]!, k]);
     return {
       description,
       forward(input: tf.Tensor4D): tf.Tensor2D {
@@ -93,7 +95,7 @@ export async function loadOnnxModel(file: NamedBytes): Promise<LoadedModel> {
       dispose(): void {
         if (disposed) return;
         disposed = true;
-        compiled.kept.forEach((t) => t.dispose());
+        kept.forEach((t) => t.dispose());
       },
     };
   } catch (err) {

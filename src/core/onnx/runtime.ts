@@ -1,6 +1,12 @@
 /** Runs a compiled graph on one input batch: the kernels in order, on a map of named operands. */
 import * as tf from '@tensorflow/tfjs';
 import type { CompiledGraph, Source, Step } from './compile.ts';
+
+/**
+ * What a forward call needs. The loaded model keeps only this (not the decoded file, whose tensor
+ * payloads are views into the file's bytes).
+ */
+export type RuntimeGraph = Pick<CompiledGraph, 'inputName' | 'steps' | 'output'>;
 import { OnnxLoadError, OnnxRunError } from './errors.ts';
 import { hostToTensor, Operand } from './values.ts';
 
@@ -8,7 +14,7 @@ import { hostToTensor, Operand } from './values.ts';
  * The graph output for `input` (in the model's own layout), in ONNX layout. Differentiable; call
  * inside tf.tidy (intermediate tensors are left to the caller's scope, as the gradient tape needs them).
  */
-export function runGraph(graph: CompiledGraph, input: tf.Tensor): tf.Tensor {
+export function runGraph(graph: RuntimeGraph, input: tf.Tensor): tf.Tensor {
   const batch = input.shape[0]!;
   const values = new Map<string, Operand>([[graph.inputName, Operand.of(input)]]);
   for (const step of graph.steps) runStep(step, values, batch);

@@ -54,6 +54,9 @@ const TO_CHANNELS_FIRST = [0, 3, 1, 2];
  * A runtime value. Rank-4 values may be held channels-last (NHWC), the layout tfjs convolutions
  * and pools need; the ONNX (NCHW) form is made only when an operator needs ONNX axis semantics,
  * so a chain conv → batch norm → relu → conv never transposes in between.
+ * Why lazily per value rather than converting the whole graph to NHWC once: every axis-bearing
+ * operator (Reshape, Flatten, Concat, Softmax, Gather, Slice…) would need its axes and data order
+ * rewritten, which is where such conversions go wrong; here every translator keeps ONNX semantics.
  */
 export class Operand {
   private constructor(

@@ -35,20 +35,24 @@ function softmaxLike(op: LastAxisOp): OpCompiler {
   };
 }
 
-/** Reduction axes: attribute before opset 18, input 1 from 18 on (noop_with_empty_axes honoured). */
-function reductionAxes(ctx: OpContext, rank: number): number[] {
-  const given = ctx.opset < 18 ? ctx.attrs.optionalInts('axes') : ctx.has(1) ? ctx.requireInts(1, 'axes') : undefined;
+/**
+ * Reduction axes: an attribute until the opset where they became input 1 (ReduceSum: 13, the
+ * others: 18), where noop_with_empty_axes appeared too.
+ */
+function reductionAxes(ctx: OpContext, rank: number, axesInputSince: number): number[] {
+  const asInput = ctx.opset >= axesInputSince;
+  const given = !asInput ? ctx.attrs.optionalInts('axes') : ctx.has(1) ? ctx.requireInts(1, 'axes') : undefined;
   if (given === undefined || given.length === 0) {
-    return ctx.opset >= 18 && ctx.attrs.int('noop_with_empty_axes', 0) === 1 ? [] : Array.from({ length: rank }, (_, i) => i);
+    return asInput && ctx.attrs.int('noop_with_empty_axes', 0) === 1 ? [] : Array.from({ length: rank }, (_, i) => i);
   }
-  return [...new Set(given.map((a) => normalizeAxis(a, rank, ctx.fail)))].sort();
+  return [...new Set(given.map((a) => normalizeAxis(a, rank, ctx.fail)))].sort((a, b) => a - b);
 }
 
-function reduction(op: (t: tf.Tensor, axes: number[], keepDims: boolean) => tf.Tensor): OpCompiler {
+function reduction(op: (t: tf.Tensor, axes: number[], keepDims: boolean) => tf.Tensor, axesInputSince = 18): OpCompiler {
   return (ctx) => {
     const x = ctx.meta(0);
     const rank = x.shape.length;
-    const axes = reductionAxes(ctx, rank);
+    const axes = reductionAxes(ctx, rank, axesInputSince);
     const keep = ctx.attrs.int('keepdims', 1) === 1;
     const shape = keep ? x.shape.map((d, i) => (axes.includes(i) ? 1 : d)) : x.shape.filter((_, i) => !axes.includes(i));
     // Channels-last input: reduce there when the result's axis order is the same either way.
@@ -70,6 +74,6 @@ export const REDUCE_OPS: Record<string, OpCompiler> = {
   Softmax: softmaxLike((t) => tf.softmax(t)),
   LogSoftmax: softmaxLike((t) => tf.logSoftmax(t)),
   ReduceMean: reduction((t, axes, keep) => tf.mean(t, axes, keep)),
-  ReduceSum: reduction((t, axes, keep) => tf.sum(t, axes, keep)),
+  ReduceSum: reduction((t, axes, keep) => tf.sum(t, axes, keep), 13),
   ReduceMax: reduction((t, axes, keep) => tf.max(t, axes, keep)),
 };

@@ -79,12 +79,15 @@ const unsqueeze: OpCompiler = (ctx) => {
 const transpose: OpCompiler = (ctx) => {
   const shape = ctx.meta(0).shape;
   const perm = ctx.attrs.ints('perm', shape.map((_, i) => shape.length - 1 - i));
-  if (perm.length !== shape.length || [...perm].sort().some((p, i) => p !== i)) ctx.fail(`perm [${perm.join(', ')}] is not a permutation of rank ${shape.length}`);
+  if (perm.length !== shape.length || [...perm].sort((a, b) => a - b).some((p, i) => p !== i)) ctx.fail(`perm [${perm.join(', ')}] is not a permutation of rank ${shape.length}`);
   const toChannelsLast = perm.join() === '0,2,3,1';
+  const toChannelsFirst = perm.join() === '0,3,1,2';
   return kernelResult([{ shape: perm.map((p) => shape[p]!), dtype: ctx.meta(0).dtype }], [0], ({ input }) => {
     const x = input(0);
-    // An NCHW → NHWC transpose of a value held channels-last is that tensor itself.
+    // An NCHW → NHWC transpose of a value held channels-last is that tensor itself; an NHWC → NCHW
+    // transpose (how channels-last exports begin) has its input as its channels-last form.
     if (toChannelsLast && x.prefersChannelsLast) return [Operand.of(x.channelsLast())];
+    if (toChannelsFirst && !x.prefersChannelsLast) return [Operand.channelsLast(x.canonical() as tf.Tensor4D)];
     return [Operand.of(tf.transpose(x.canonical(), perm))];
   });
 };
