@@ -27,8 +27,8 @@ function linfImages(seed: number): Float32Array {
   });
 }
 
-/** L2 images: pixels in [0.3, 0.7], so the box cannot bind below a budget of 0.3 (|δ_i| ≤ ‖δ‖₂). */
-function l2Images(seed: number): Float32Array {
+/** Interior images: pixels in [0.3, 0.7], so the box cannot bind below a budget of 0.3 (|δ_i| ≤ ‖δ‖). */
+function interiorImages(seed: number): Float32Array {
   return createRng(seed).uniformArray(4 * N * D, 0.3, 0.7);
 }
 
@@ -46,15 +46,29 @@ function sampleSet(samples: readonly Sample[]): SampleSet {
 
 interface Case {
   readonly norm: Norm;
+  /** 'box': pixels at 0 and 1 so the box binds (L∞ only); 'interior': pixels in [0.3, 0.7], budgets below 0.3. */
+  readonly images: 'box' | 'interior';
+  /** Largest allowed median ratio flip budget / exact budget. */
+  readonly medianRatio: number;
   readonly search: FlipSearchId;
   readonly options: Record<string, unknown>;
   readonly tol: number;
   readonly maxEps: number;
 }
 
+// Issue 5, test 1: medians within 3 % of the closed form for PGD (margin loss) and DeepFool (its 2 %
+// overshoot included). APGD-CE maximises cross-entropy, whose ascent on an affine model heads for a
+// mix of all class directions rather than the nearest boundary, so its budgets sit above the minimum
+// by design (measured: 2.9 % L∞, 12.8 % L2 at 20 and at 100 iterations); it is held to "never below"
+// and a loose 15 % here.
 const CASES: readonly Case[] = [
-  { norm: 'linf', search: 'pgd', options: {}, tol: 2e-4, maxEps: 0.5 },
-  { norm: 'l2', search: 'pgd', options: {}, tol: 1e-3, maxEps: 2 },
+  { norm: 'linf', images: 'box', search: 'pgd', options: {}, tol: 2e-4, maxEps: 0.5, medianRatio: 1.03 },
+  { norm: 'l2', images: 'interior', search: 'pgd', options: {}, tol: 1e-3, maxEps: 2, medianRatio: 1.03 },
+  // DeepFool linearises without the box, so it is checked where the box does not bind.
+  { norm: 'linf', images: 'interior', search: 'deepfool', options: {}, tol: 2e-4, maxEps: 0.5, medianRatio: 1.03 },
+  { norm: 'l2', images: 'interior', search: 'deepfool', options: {}, tol: 1e-3, maxEps: 2, medianRatio: 1.03 },
+  { norm: 'linf', images: 'box', search: 'apgd-ce', options: { steps: 20 }, tol: 2e-4, maxEps: 0.5, medianRatio: 1.15 },
+  { norm: 'l2', images: 'interior', search: 'apgd-ce', options: { steps: 20 }, tol: 1e-3, maxEps: 2, medianRatio: 1.15 },
 ];
 
 describe('flip budgets of affine classifiers against the closed form (wasm)', () => {
@@ -66,10 +80,11 @@ describe('flip budgets of affine classifiers against the closed form (wasm)', ()
   afterAll(() => model.dispose());
 
   for (const c of CASES) {
-    it(`${c.search} ${c.norm}: never below the exact budget, median within 3 %`, async () => {
-      const samples = pickSamples(model, c.norm === 'linf' ? linfImages(8) : l2Images(9), N);
+    it(`${c.search} ${c.norm} (${c.images} images): never below the exact budget, median within ${Math.round(100 * (c.medianRatio - 1))} %`, async () => {
+      const samples = pickSamples(model, c.images === 'box' ? linfImages(8) : interiorImages(9), N);
       const exact = samples.map((s) => (c.norm === 'linf' ? minimalLinf(model, s) : minimalL2(model, s)));
-      if (c.norm === 'l2') expect(Math.max(...exact)).toBeLessThan(0.3); // keeps the L2 closed form exact (box never binds)
+      // Interior images: every |δ_i| ≤ ‖δ‖ < 0.3, so the box never binds and the closed forms above are exact.
+      if (c.images === 'interior') expect(Math.max(...exact)).toBeLessThan(0.3);
       const config: FlipBudgetConfig = { search: c.search, norm: c.norm, maxEps: c.maxEps, tol: c.tol, options: c.options, seed: 1, batchSize: 16 };
       const result = await runFlipBudgets({ logits: model.logits, samples: sampleSet(samples), config });
       const flips = result.records.map((r) => r.flipEps);
@@ -82,8 +97,7 @@ describe('flip budgets of affine classifiers against the closed form (wasm)', ()
       const ratio = medianOf(flips as number[]) / medianOf(exact);
       const worst = Math.max(...flips.map((f, i) => f! / exact[i]!));
       console.log(`${c.search} ${c.norm}: median flip budget ${medianOf(flips as number[]).toFixed(5)} vs exact ${medianOf(exact).toFixed(5)} (ratio ${ratio.toFixed(4)}), worst sample ratio ${worst.toFixed(3)}, probes/sample ${(result.records.reduce((s, r) => s + r.probes, 0) / N).toFixed(1)}`);
-      // Issue 5, test 1: the median within 3 % of the closed form.
-      expect(ratio).toBeLessThanOrEqual(1.03);
+      expect(ratio).toBeLessThanOrEqual(c.medianRatio);
       expect(result.medianFlipEps).toBeCloseTo(medianOf(flips as number[]), 12);
 
       // The curve from flip budgets, checked against the exact robust accuracy at a grid of budgets:

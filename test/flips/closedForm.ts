@@ -9,8 +9,27 @@
  *   L∞ with the box:   Σ_i max over δ_i ∈ [max(−ε, −x_i), min(ε, 1 − x_i)] of (w_j − w_y)_i·δ_i, which
  *                      grows monotonically with ε, so the minimal budget is found by bisection.
  */
-import type { AffineModel } from '../attacks/models.ts';
-import { classWeights } from '../attacks/models.ts';
+
+/** z = Wᵀx + b with W as [D, K] row-major (w[i·K + k] is the weight of pixel i for class k). */
+export interface AffineWeights {
+  readonly w: ArrayLike<number>;
+  readonly b: ArrayLike<number>;
+  readonly d: number;
+  readonly k: number;
+}
+
+/** Logits of one image in float64. */
+export function logits64(model: AffineWeights, x: ArrayLike<number>): number[] {
+  return Array.from({ length: model.k }, (_, c) => {
+    let z = model.b[c]!;
+    for (let i = 0; i < model.d; i++) z += model.w[i * model.k + c]! * x[i]!;
+    return z;
+  });
+}
+
+function classWeights(model: AffineWeights, c: number): Float64Array {
+  return Float64Array.from({ length: model.d }, (_, i) => model.w[i * model.k + c]!);
+}
 
 export interface Sample {
   readonly x: Float32Array;
@@ -29,8 +48,8 @@ function linfDecrease(c: Float64Array, x: ArrayLike<number>, eps: number): numbe
 }
 
 /** Exact minimal L2 budget (box ignored) of one sample. */
-export function minimalL2(model: AffineModel, s: Sample): number {
-  const z = model.logits64(s.x);
+export function minimalL2(model: AffineWeights, s: Sample): number {
+  const z = logits64(model, s.x);
   const wy = classWeights(model, s.y);
   let best = Number.POSITIVE_INFINITY;
   for (let j = 0; j < model.k; j++) {
@@ -43,8 +62,8 @@ export function minimalL2(model: AffineModel, s: Sample): number {
 }
 
 /** Exact minimal box-aware L∞ budget of one sample (bisection to 1e-12 on the monotone closed form). */
-export function minimalLinf(model: AffineModel, s: Sample): number {
-  const z = model.logits64(s.x);
+export function minimalLinf(model: AffineWeights, s: Sample): number {
+  const z = logits64(model, s.x);
   const wy = classWeights(model, s.y);
   const directions = Array.from({ length: model.k }, (_, j) => j)
     .filter((j) => j !== s.y)
@@ -62,12 +81,12 @@ export function minimalLinf(model: AffineModel, s: Sample): number {
 }
 
 /** Clean-correct samples (label = argmax of the clean logits, top margin > 1e-3) from candidate images. */
-export function pickSamples(model: AffineModel, pixels: Float32Array, count: number): Sample[] {
+export function pickSamples(model: AffineWeights, pixels: Float32Array, count: number): Sample[] {
   const out: Sample[] = [];
   for (let n = 0; out.length < count; n++) {
     const x = pixels.slice(n * model.d, (n + 1) * model.d);
     if (x.length < model.d) throw new Error('not enough candidate images');
-    const z = model.logits64(x);
+    const z = logits64(model, x);
     const sorted = [...z].sort((a, b) => b - a);
     if (sorted[0]! - sorted[1]! > 1e-3) out.push({ x, y: z.indexOf(sorted[0]!) });
   }

@@ -52,3 +52,29 @@ export function medianFlipEps(records: readonly FlipRecord[]): number | null {
   const value = n % 2 === 1 ? values[mid]! : (values[mid - 1]! + values[mid]!) / 2;
   return Number.isFinite(value) ? value : null;
 }
+
+/** Flip budgets binned for a histogram, with the two kinds of sample that have no finite positive budget. */
+export interface FlipHistogram {
+  /** binCount + 1 ascending edges from 0 to maxEps; bin i holds budgets in (edges[i], edges[i+1]] (the first also 0 < budget). */
+  readonly edges: readonly number[];
+  readonly counts: readonly number[];
+  /** Samples misclassified clean (budget 0). */
+  readonly misclassified: number;
+  /** Samples nothing flipped up to maxEps. */
+  readonly neverFlipped: number;
+}
+
+/** Histogram of the positive flip budgets in `binCount` equal bins over (0, maxEps]. */
+export function flipBudgetHistogram(records: readonly FlipRecord[], binCount: number, maxEps: number): FlipHistogram {
+  if (!Number.isInteger(binCount) || binCount < 1) throw new Error(`binCount must be a positive integer, got ${binCount}`);
+  const edges = Array.from({ length: binCount + 1 }, (_, i) => (maxEps * i) / binCount);
+  const counts = new Array<number>(binCount).fill(0);
+  let misclassified = 0;
+  let neverFlipped = 0;
+  for (const r of records) {
+    if (r.flipEps === null) neverFlipped++;
+    else if (r.flipEps === 0) misclassified++;
+    else counts[Math.min(binCount - 1, Math.max(0, Math.ceil((r.flipEps / maxEps) * binCount) - 1))]!++;
+  }
+  return { edges, counts, misclassified, neverFlipped };
+}

@@ -9,7 +9,7 @@ import { gatherBatch, predict } from '../sweep/evaluate.ts';
 import { bisectBatch, type BisectionRows } from './bisect.ts';
 import { medianFlipEps } from './curve.ts';
 import { checkBisectionSettings } from './defaults.ts';
-import { makeFlipSearch, type AttackLookup, type FlipSearch } from './searches.ts';
+import { makeFlipSearch, validateFlipOptions, type AttackLookup, type FlipSearch } from './searches.ts';
 import type { FlipBudgetConfig, FlipBudgetResult, FlipProgress, FlipRecord } from './types.ts';
 
 export interface FlipBudgetInput {
@@ -28,8 +28,10 @@ export interface FlipBudgetHooks {
 
 /** Measure every sample's flip budget. Throws an Error naming the problem for a bad configuration. */
 export async function runFlipBudgets(input: FlipBudgetInput, hooks: FlipBudgetHooks = {}): Promise<FlipBudgetResult> {
-  const { config, samples } = input;
-  checkConfig(config);
+  const { samples } = input;
+  checkConfig(input.config);
+  // The result records the options as the search completed them, so a run can be repeated exactly.
+  const config: FlipBudgetConfig = { ...input.config, options: validateFlipOptions(input.config.search, input.config.options, input.resolveAttack) };
   const search = makeFlipSearch(config, input.resolveAttack);
   const startedAt = new Date().toISOString();
   const records: FlipRecord[] = [];

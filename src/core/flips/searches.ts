@@ -57,7 +57,11 @@ export function validateFlipOptions(search: FlipSearchId, options: Readonly<Reco
   if ('target' in options && (options['target'] as { kind?: unknown } | undefined)?.kind !== 'untargeted') {
     throw new Error(`${search}: flip budgets are untargeted; remove the target option`);
   }
-  if (search === 'pgd') return { ...pgdMeta.validate({ ...FLIP_PGD_DEFAULTS, ...options } as Partial<PgdOptions>) };
+  if (search === 'pgd') {
+    // Without random starts a second restart would repeat the first, so the default drops to one.
+    const defaults = options['randomStart'] === false ? { ...FLIP_PGD_DEFAULTS, restarts: 1 } : FLIP_PGD_DEFAULTS;
+    return { ...pgdMeta.validate({ ...defaults, ...options } as Partial<PgdOptions>) };
+  }
   return resolve(search).meta.validate(options as Partial<unknown>) as Record<string, unknown>;
 }
 

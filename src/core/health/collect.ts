@@ -4,6 +4,7 @@
  * and with added restarts, afresh at the largest budget, FGSM, random noise and the Square attack
  * (each only when the sweep did not already run it).
  */
+import * as tf from '@tensorflow/tfjs';
 import type { AttackId } from '../attacks/types.ts';
 import { getAttack } from '../attacks/registry.ts';
 import type { SweepResult } from '../sweep/types.ts';
@@ -60,7 +61,11 @@ function constantShare(labels: Int32Array): number {
 }
 
 async function saturationEvidence(input: CollectInput): Promise<HealthEvidence['saturation']> {
-  if (input.outputKind === 'logits') return { outputKind: 'logits', rows: input.samples.labels.length, saturatedRows: 0 };
+  if (input.outputKind === 'logits') {
+    const logits = input.logits;
+    const m = await measureSaturation((x) => tf.softmax(logits(x)), input.samples, input.batchSize);
+    return { outputKind: 'logits', ...m };
+  }
   if (input.rawOutputs === undefined) return null;
   const m = await measureSaturation(input.rawOutputs, input.samples, input.batchSize);
   return { outputKind: 'probabilities', ...m };

@@ -69,7 +69,7 @@ function singleStep(e: HealthEvidence): HealthCheck {
   const numbers = { eps: worst.eps, iterativeRobust: worst.referenceRobust, fgsmRobust: worst.otherRobust, samples: worst.samples };
   const line = `${worst.attack} leaves ${worst.referenceRobust} robust and FGSM ${worst.otherRobust} of ${worst.samples} at ε = ${worst.eps}`;
   if (beyondSlack(worst.referenceRobust - worst.otherRobust, worst.samples)) return check('iterative-vs-single-step', 'warn', `${line}: the single step is stronger (check the iterative search's step size, or masked gradients).`, numbers);
-  return check('iterative-vs-single-step', 'pass', `${line} (the largest gap at any budget).`, numbers);
+  return check('iterative-vs-single-step', 'pass', `${line} (the budget where FGSM comes closest).`, numbers);
 }
 
 function gradientFree(e: HealthEvidence): HealthCheck {
@@ -118,14 +118,18 @@ function noise(e: HealthEvidence): HealthCheck {
   const numbers = { eps: worst.eps, noiseRobust: worst.otherRobust, searchRobust: worst.referenceRobust, samples: worst.samples };
   const line = `Random noise leaves ${worst.otherRobust} robust and ${e.reference} ${worst.referenceRobust} of ${worst.samples} at ε = ${worst.eps}`;
   if (beyondSlack(worst.referenceRobust - worst.otherRobust, worst.samples)) return check('noise', 'warn', `${line}: noise beats the search, a sign of masked gradients.`, numbers);
-  return check('noise', 'pass', `${line} (the closest budget).`, numbers);
+  return check('noise', 'pass', `${line} (the budget where noise comes closest).`, numbers);
 }
 
 function saturation(e: HealthEvidence): HealthCheck {
   const s = e.saturation;
   if (s === null) return check('saturation', 'skip', 'The model outputs probabilities but its raw outputs were not available to inspect.');
-  if (s.outputKind === 'logits') return check('saturation', 'pass', 'The model outputs logits; the losses are computed from them directly, not from probabilities.', { rows: s.rows, saturatedRows: 0 });
-  const numbers = { rows: s.rows, saturatedRows: s.saturatedRows, share: s.rows === 0 ? 0 : s.saturatedRows / s.rows };
+  const numbers = { rows: s.rows, topOne: s.topOne, saturatedRows: s.saturatedRows, share: s.rows === 0 ? 0 : s.saturatedRows / s.rows };
+  if (s.outputKind === 'logits') {
+    // Why report it: where p_y rounds to 1 the cross-entropy gradient loses its −∇z_y term (and its value is 0),
+    // while margin-type losses on the logits keep their full gradient.
+    return check('saturation', 'pass', `The model outputs logits, which the losses use directly; the softmax of ${s.topOne} of ${s.rows} clean rows (${pct(s.topOne, s.rows)}) rounds to exactly 1, where cross-entropy is weak and margin or DLR losses are not.`, numbers);
+  }
   const line = `${s.saturatedRows} of ${s.rows} clean outputs (${pct(s.saturatedRows, s.rows)}) are float32 ones and zeros`;
   if (s.rows > 0 && s.saturatedRows / s.rows > SATURATION_SHARE) return check('saturation', 'warn', `${line}: their log-probabilities are flat, which starves every loss of gradient; evaluate the logits instead.`, numbers);
   return check('saturation', 'pass', `${line}.`, numbers);

@@ -49,26 +49,32 @@ export async function measureGradients(logits: LogitsFn, samples: SampleSet, bat
 }
 
 /**
- * Rows of the model's own output (probabilities) at the clean inputs that are saturated in float32:
- * the top probability is exactly 1 and some class's is exactly 0. The log of such a row is flat in
- * every class at 0 (log(1) = 0, and the log-probability of a zero class is a constant floor), so no
- * loss computed from it has a gradient there.
+ * Rows of `probabilities` (a model's own probability output, or the softmax of its logits) at the clean
+ * inputs that round to exact float32 values: `topOne` rows whose top probability is exactly 1, and
+ * `saturatedRows` among them where some class's probability is exactly 0 as well. The log of a
+ * saturated row is flat at 0 for the top class and a constant floor for the zero classes, so no loss
+ * computed from it has a gradient there.
  */
-export async function measureSaturation(outputs: LogitsFn, samples: SampleSet, batchSize: number): Promise<{ rows: number; saturatedRows: number }> {
+export async function measureSaturation(probabilities: LogitsFn, samples: SampleSet, batchSize: number): Promise<{ rows: number; topOne: number; saturatedRows: number }> {
+  let topOne = 0;
   let saturatedRows = 0;
   for (const indices of batches(samples.labels.length, batchSize)) {
     const { x, labels } = gatherBatch(samples, indices);
     try {
-      const saturated = tf.tidy(() => {
-        const p = outputs(x);
-        return tf.logicalAnd(tf.equal(tf.max(p, 1), 1), tf.equal(tf.min(p, 1), 0));
+      const [one, zero] = tf.tidy(() => {
+        const p = probabilities(x);
+        return [tf.equal(tf.max(p, 1), 1), tf.equal(tf.min(p, 1), 0)];
       });
-      const values = await saturated.data();
-      saturated.dispose();
-      for (const v of values) if (v !== 0) saturatedRows++;
+      const [o, z] = await Promise.all([one.data(), zero.data()]);
+      tf.dispose([one, zero]);
+      for (let i = 0; i < o.length; i++) {
+        if (o[i] === 0) continue;
+        topOne++;
+        if (z[i] !== 0) saturatedRows++;
+      }
     } finally {
       tf.dispose([x, labels]);
     }
   }
-  return { rows: samples.labels.length, saturatedRows };
+  return { rows: samples.labels.length, topOne, saturatedRows };
 }

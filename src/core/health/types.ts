@@ -66,5 +66,10 @@ export interface HealthEvidence {
   readonly gradients: { readonly samples: number; readonly nonFinite: number; readonly zero: number };
   /** Per budget, random noise against the reference (other = noise). */
   readonly noise: readonly PairedCount[];
-  readonly saturation: { readonly outputKind: OutputKind; readonly rows: number; readonly saturatedRows: number } | null;
+  /**
+   * Clean rows of the model's probabilities (for a logits model: of the softmax the cross-entropy
+   * takes) whose top value is exactly 1 in float32, and those with an exact 0 as well; null when a
+   * probability model's raw outputs were not available.
+   */
+  readonly saturation: { readonly outputKind: OutputKind; readonly rows: number; readonly topOne: number; readonly saturatedRows: number } | null;
 }
