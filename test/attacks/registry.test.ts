@@ -8,20 +8,21 @@ import { ATTACKS, attackIds, getAttack, isAttackId } from '../../src/core/attack
 import type { AttackId } from '../../src/core/attacks/types.ts';
 
 describe('attack registry', () => {
-  it('lists FGSM and PGD with their metadata', () => {
-    expect(attackIds()).toEqual(['fgsm', 'pgd']);
-    expect(ATTACKS.map((a) => a.meta.label)).toEqual(['FGSM', 'PGD']);
+  it('lists every search with its metadata', () => {
+    expect(attackIds()).toEqual(['fgsm', 'pgd', 'apgd-ce', 'apgd-dlr', 'square', 'deepfool', 'noise']);
+    expect(ATTACKS.map((a) => a.meta.label)).toEqual(['FGSM', 'PGD', 'APGD-CE', 'APGD-DLR', 'Square', 'DeepFool', 'Random noise']);
     for (const id of attackIds()) {
       const attack = getAttack(id);
       expect(attack.meta.id).toBe(id);
       expect(attack.meta.norms).toEqual(['linf', 'l2']);
       // Every summary cites its paper and year.
-      expect(attack.meta.summary).toMatch(/et al\., ".+", ICLR 20\d\d/);
+      expect(attack.meta.summary).toMatch(/(et al\.|& \w+), ".+", [A-Za-z]+ 20\d\d\)/);
       // validate({}) completes exactly the defaults.
       expect(attack.meta.validate({})).toEqual(attack.meta.defaults);
     }
     expect(isAttackId('pgd')).toBe(true);
-    expect(isAttackId('deepfool')).toBe(false);
+    expect(isAttackId('deepfool')).toBe(true);
+    expect(isAttackId('nope')).toBe(false);
     expect(() => getAttack('nope' as AttackId)).toThrow(/Unknown attack "nope"/);
   });
 

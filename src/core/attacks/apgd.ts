@@ -10,7 +10,8 @@
  * with d = sign for L∞ and ·/‖·‖₂ for L2, Π the projection onto ball ∩ [0,1] and η = 2ε at first. At
  * the checkpoints of apgdSchedule.ts a sample's η is halved and its search moves back to the best
  * point of the restart (using the gradient stored there). Here the checkpoint test at w_j runs as soon
- * as f(x(w_j)) is known, and it is x(w_j) that the best point replaces.
+ * as f(x(w_j)) is known, and it is x(w_j) that the best point replaces. The random start (uniform in
+ * the L∞ ball, uniform on the L2 sphere of radius ε) follows the paper's setup as remembered (from memory).
  *
  * Bookkeeping as in pgd.ts: every iterate is evaluated (the start and x(N) included); a sample seen
  * misclassified is flipped, its point frozen and it is no longer attacked; restarts continue only the

@@ -8,7 +8,8 @@
  *   L∞ (q = 1, the dual):  r_i = |f'_l| / ‖w'_l‖₁ · sign(w'_l)
  * The total r = Σ r_i is scaled by 1 + overshoot (0.02 in the paper); the search linearises and checks
  * the class at x + (1 + overshoot)·r, clipped to [0, 1], and stops when the class has changed. For an
- * affine classifier the first step is exact.
+ * affine classifier the first step is exact. Box-aware detail (not in the paper): pixels at a bound
+ * that the step would push outward are held fixed (see freeGradient).
  *
  * As an attack at budget ε the point found is projected onto ball ∩ box and the sample counts as
  * flipped when the projected point is misclassified. DeepFool uses no randomness.
@@ -36,15 +37,18 @@ export interface DeepFoolOptions {
 
 const DEEPFOOL_DEFAULTS: DeepFoolOptions = { topK: 10, overshoot: 0.02, maxIterations: 50 };
 
-/** Steps a typical sample needs, for the plan estimate (from memory: the paper reports a few). */
-const TYPICAL_ITERATIONS = 3;
+/**
+ * Steps a typical sample needs, for the plan estimate: the paper reports a few (from memory); on the
+ * MNIST CNN test fixture digits took 3 to 6.
+ */
+const TYPICAL_ITERATIONS = 4;
 
 export const deepfoolMeta: AttackMeta<DeepFoolOptions> = {
   id: 'deepfool',
   label: 'DeepFool',
   summary:
     'Fast minimal-perturbation estimate: steps to the nearest boundary of the classifier linearised over the top classes, plus a 2 % overshoot, then projected onto the budget (Moosavi-Dezfooli et al., "DeepFool: a simple and accurate method to fool deep neural networks", CVPR 2016).',
-  norms: ['l2', 'linf'],
+  norms: ['linf', 'l2'],
   defaults: DEEPFOOL_DEFAULTS,
   estimateGradientEvaluations: (options) => (options.topK - 1) * Math.min(options.maxIterations, TYPICAL_ITERATIONS),
   validate(options) {
@@ -215,7 +219,9 @@ async function linearStep(problem: MinimalPerturbationProblem, rows: Rows, conte
       const next = tidyObject(() => {
         const k = tf.reshape(tf.slice(rows.candidates, [0, rank], [m, 1]), [m]) as tf.Tensor1D;
         const pick = (z: tf.Tensor2D, cls: tf.Tensor1D): tf.Tensor1D => tf.sum(tf.mul(z, tf.oneHot(cls, z.shape[1])), 1);
-        const { loss, grad } = objectiveAndInputGradient(problem.logits, rows.current, (z) => tf.sub(pick(z, k), pick(z, rows.labels)));
+        const value = objectiveAndInputGradient(problem.logits, rows.current, (z) => tf.sub(pick(z, k), pick(z, rows.labels)));
+        const { loss } = value;
+        const grad = freeGradient(value.grad, rows.current);
         const gap = tf.abs(loss);
         const dual = problem.norm === 'l2' ? tf.reshape(perSampleL2(grad), [m]) : tf.sum(tf.abs(grad), [1, 2, 3]);
         const safe = tf.maximum(dual, 1e-30);
@@ -239,10 +245,25 @@ async function linearStep(problem: MinimalPerturbationProblem, rows: Rows, conte
   }
 }
 
+/**
+ * x + (1 + overshoot)·(r + r_i), clipped to the box; r is then reset to the clipped point's own
+ * perturbation ÷ (1 + overshoot), so later steps start from where the search really is.
+ */
 function advance(rows: Rows, step: tf.Tensor4D, overshoot: number): Rows {
-  const total = tf.add(rows.total, step);
-  const current = tf.clipByValue(tf.add(rows.clean, tf.mul(1 + overshoot, total)), 0, 1);
+  const current: tf.Tensor4D = tf.clipByValue(tf.add(rows.clean, tf.mul(1 + overshoot, tf.add(rows.total, step))), 0, 1);
+  const total: tf.Tensor4D = tf.div(tf.sub(current, rows.clean), 1 + overshoot);
   return { clean: tf.clone(rows.clean), labels: tf.clone(rows.labels), candidates: tf.clone(rows.candidates), total, current };
+}
+
+/**
+ * Drops the gradient components of pixels that sit at a bound of [0, 1] and would be pushed out of it:
+ * those pixels cannot move, so the linearised problem is solved over the free pixels only. (Without
+ * this, on MNIST, whose background sits at 0, most of each step was clipped away: the search needed
+ * about 20 steps per digit and gave up on about a third of them within 50.)
+ */
+function freeGradient(grad: tf.Tensor4D, point: tf.Tensor4D): tf.Tensor4D {
+  const blocked = tf.logicalOr(tf.logicalAnd(tf.lessEqual(point, 0), tf.less(grad, 0)), tf.logicalAnd(tf.greaterEqual(point, 1), tf.greater(grad, 0)));
+  return tf.where(blocked, tf.zerosLike(grad), grad);
 }
 
 /** DeepFool at a budget: the point found, projected onto ball ∩ box; flipped if that point is misclassified. */

@@ -31,7 +31,7 @@ export const noiseMeta: AttackMeta<NoiseOptions> = {
   id: 'noise',
   label: 'Random noise',
   summary:
-    'Baseline, not a search: random corners of the L∞ ball or random directions on the L2 sphere at the full budget, flipped if any draw is misclassified (Carlini et al., "On Evaluating Adversarial Robustness", arXiv 2019, recommend this check).',
+    'Baseline, not a search: random corners of the L∞ ball or random directions on the L2 sphere at the full budget, flipped if any draw is misclassified (the chance check recommended by Carlini et al., "On Evaluating Adversarial Robustness", arXiv 2019).',
   norms: ['linf', 'l2'],
   defaults: NOISE_DEFAULTS,
   estimateGradientEvaluations: (options) => options.draws,

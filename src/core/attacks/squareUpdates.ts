@@ -7,7 +7,8 @@
  * sets one random h×h window, per channel, to x ± ε (x̂ + ρ·2ε projected back onto the ball).
  * L2 (Algorithm 3): start from a grid of centre-weighted tiles with random signs scaled to norm ε;
  * a proposal moves the perturbation mass of a second random window, and any unused budget, into a
- * first window, adding there a fresh centre-weighted pattern of random sign.
+ * first window, adding there a fresh centre-weighted pattern of random sign. The details of the L2
+ * start (tile side ⌊min(H, W)/5⌋) and the odd side ≥ 3 of L2 windows are from memory.
  */
 import type { Rng } from '../random/rng.ts';
 
@@ -62,7 +63,7 @@ export function linfStripes(x: Float32Array, eps: number, g: Geometry, rng: Rng)
 
 /** An L∞ proposal: `best` with one random h×h window changed in place of a copy; returns the copy. */
 export function linfProposal(x: Float32Array, best: Float32Array, eps: number, side: number, g: Geometry, rng: Rng): Float32Array {
-  const out = Float32Array.from(best);
+  const out = best.slice();
   const top = rng.int(g.height - side + 1);
   const left = rng.int(g.width - side + 1);
   const signs = Array.from({ length: g.channels }, () => sign(rng));
@@ -135,34 +136,54 @@ export function l2Tiles(x: Float32Array, eps: number, g: Geometry, rng: Rng): Fl
   return pointFromDelta(x, delta.map((v) => (v * eps) / norm), eps);
 }
 
-/** Pixel offsets (r·W + c) of an h×h window. */
-function windowPixels(top: number, left: number, side: number, g: Geometry): number[] {
+/** Pixel offsets (r·W + c) of an h×h window at a random position. */
+function randomWindow(side: number, g: Geometry, rng: Rng): number[] {
+  const top = rng.int(g.height - side + 1);
+  const left = rng.int(g.width - side + 1);
   const out: number[] = [];
   for (let r = top; r < top + side; r++) for (let c = left; c < left + side; c++) out.push(r * g.width + c);
   return out;
 }
 
+/**
+ * L2 window side: the L∞ side made odd and at least 3 (as far as the image allows), so that the
+ * centre-weighted pattern has a centre pixel and at least one ring around it.
+ */
+export function l2Side(side: number, g: Geometry): number {
+  const limit = Math.min(g.height, g.width);
+  const odd = side % 2 === 0 ? side + 1 : side;
+  return Math.min(limit, Math.max(3, odd));
+}
+
+/** Shrinks the window norms a hair so that float32 rounding of x + δ cannot take ‖δ‖₂ above ε. */
+const ROUNDING_MARGIN = 1 - 1e-6;
+
 /** An L2 proposal built from the current best point (see the file comment). */
 export function l2Proposal(x: Float32Array, best: Float32Array, eps: number, side: number, g: Geometry, rng: Rng): Float32Array {
-  const delta = Float64Array.from(best, (v, i) => v - x[i]!);
-  const first = windowPixels(rng.int(g.height - side + 1), rng.int(g.width - side + 1), side, g);
-  const second = windowPixels(rng.int(g.height - side + 1), rng.int(g.width - side + 1), side, g);
+  const out = best.slice();
+  let total = 0;
+  for (let i = 0; i < x.length; i++) total += (best[i]! - x[i]!) ** 2;
+  const first = randomWindow(side, g, rng);
+  const second = randomWindow(side, g, rng);
   const union = [...new Set([...first, ...second])];
   const pattern = centreWeightedPattern(side);
-  const total = delta.reduce((a, v) => a + v * v, 0);
   const unusedPerChannel = Math.max(eps * eps - total, 0) / g.channels;
   for (let k = 0; k < g.channels; k++) {
     const at = (p: number): number => p * g.channels + k;
-    const oldNorm = Math.sqrt(first.reduce((a, p) => a + delta[at(p)]! ** 2, 0));
-    const mass = union.reduce((a, p) => a + delta[at(p)]! ** 2, 0);
+    const delta = (p: number): number => best[at(p)]! - x[at(p)]!;
+    let oldSquared = 0;
+    for (const p of first) oldSquared += delta(p) ** 2;
+    let mass = 0;
+    for (const p of union) mass += delta(p) ** 2;
+    const oldNorm = Math.sqrt(oldSquared);
     const s = sign(rng);
-    const fresh = first.map((p, j) => s * pattern[j]! + (oldNorm > 1e-10 ? delta[at(p)]! / oldNorm : 0));
+    const fresh = first.map((p, j) => s * pattern[j]! + (oldNorm > 1e-10 ? delta(p) / oldNorm : 0));
     const freshNorm = Math.sqrt(fresh.reduce((a, v) => a + v * v, 0));
-    const length = Math.sqrt(mass + unusedPerChannel);
-    for (const p of second) delta[at(p)] = 0;
+    const length = Math.sqrt(mass + unusedPerChannel) * ROUNDING_MARGIN;
+    for (const p of second) out[at(p)] = x[at(p)]!;
     first.forEach((p, j) => {
-      delta[at(p)] = freshNorm > 0 ? (fresh[j]! / freshNorm) * length : 0;
+      out[at(p)] = clip01(x[at(p)]! + (freshNorm > 0 ? (fresh[j]! / freshNorm) * length : 0));
     });
   }
-  return pointFromDelta(x, delta, eps);
+  return out;
 }
