@@ -4,21 +4,34 @@
  */
 import { parseArgs, UsageError, type FlagTable, type ParsedArgs } from './args.ts';
 import { SWEEP_FLAGS, SWEEP_USAGE, sweepCommand } from './sweepCommand.ts';
+import { FLIPS_FLAGS, FLIPS_USAGE, flipsCommand } from './flipsCommand.ts';
+import { REPORT_FLAGS, REPORT_USAGE, reportCommand } from './reportCommand.ts';
+import { COMPARE_FLAGS, COMPARE_USAGE, compareCommand } from './compareCommand.ts';
+import { GATE_FLAGS, GATE_USAGE, gateCommand } from './gateCommand.ts';
 
 interface Command {
   readonly flags: FlagTable;
   readonly usage: string;
-  readonly run: (args: ParsedArgs) => Promise<void>;
+  /** Resolves with the exit code, or nothing for 0 (the gate returns 1 when a threshold fails). */
+  readonly run: (args: ParsedArgs) => Promise<void | number>;
 }
 
 const COMMANDS: Readonly<Record<string, Command>> = {
   sweep: { flags: SWEEP_FLAGS, usage: SWEEP_USAGE, run: sweepCommand },
+  flips: { flags: FLIPS_FLAGS, usage: FLIPS_USAGE, run: flipsCommand },
+  report: { flags: REPORT_FLAGS, usage: REPORT_USAGE, run: reportCommand },
+  compare: { flags: COMPARE_FLAGS, usage: COMPARE_USAGE, run: compareCommand },
+  gate: { flags: GATE_FLAGS, usage: GATE_USAGE, run: gateCommand },
 };
 
 const HELP = `brink — adversarial robustness sweeps for image classifiers, on your own machine.
 
 commands:
-  sweep    attacks × budgets over a labelled sample set → curve.csv, samples.csv, run.json
+  sweep    attacks × budgets over a labelled sample set → curve.csv, samples.csv, run.json, run.brink.json (--health: health.csv)
+  flips    the smallest budget that flips each sample (bisection over ε, or DeepFool) → flips.csv
+  report   one self-contained HTML report of a sweep's run folder (run.brink.json) → report.html
+  compare  two or more run folders side by side → comparison.csv, comparison.svg
+  gate     exit 1 when a run's robust accuracy is below a threshold (for CI pipelines)
 
 Run "npm run -s cli -- <command> --help" for a command's flags.`;
 
@@ -30,8 +43,7 @@ async function main(argv: readonly string[]): Promise<number> {
   }
   const command = COMMANDS[name];
   if (!command) throw new UsageError(`unknown command "${name}" (commands: ${Object.keys(COMMANDS).join(', ')})`);
-  await command.run(parseArgs(rest, command.flags));
-  return 0;
+  return (await command.run(parseArgs(rest, command.flags))) ?? 0;
 }
 
 main(process.argv.slice(2)).then(

@@ -10,6 +10,9 @@ import { PREPROCESSING_FLAGS, SEARCH_FLAGS, attackOptionsFor, preprocessingFromF
 import { loadInputs } from './loadInputs.ts';
 import { startNodeBackend } from './nodePlatform.ts';
 import { stderrProgress } from './progress.ts';
+import { EXTRA_SEARCH_FLAGS, extraSearchOptionsFromFlags } from './searchOptionFlags.ts';
+import { HEALTH_FLAGS, writeHealthCsv } from './healthOption.ts';
+import { flipCollectorFor, writeSavedRun } from './savedRunFiles.ts';
 import { getAttack, attackIds } from '../core/attacks/registry.ts';
 import type { AttackId } from '../core/attacks/types.ts';
 import { makeLogitsFn } from '../core/models/pipeline.ts';
@@ -23,11 +26,13 @@ export const SWEEP_FLAGS: FlagTable = {
   model: { kind: 'string', placeholder: '<model.json|model.onnx>', description: 'the model to evaluate' },
   samples: { kind: 'string', placeholder: '<folder|manifest.csv>', description: 'labelled samples: a folder per class or a file,label manifest' },
   classes: { kind: 'string', placeholder: '<file>', description: 'class names, one per line, in index order' },
-  attack: { kind: 'string', placeholder: '<fgsm|pgd>[,...]', description: 'searches to run at every budget' },
+  attack: { kind: 'string', placeholder: '<id>[,...]', description: `searches to run at every budget: ${attackIds().join(', ')}` },
   norm: { kind: 'string', placeholder: 'linf|l2', description: 'threat model norm, in pixel units on [0,1]' },
   eps: { kind: 'string', placeholder: '<e1,e2,...>', description: 'budgets (e.g. 0,0.0078,0.0157 or 2/255 written as 0.00784)' },
   ...SEARCH_FLAGS,
+  ...EXTRA_SEARCH_FLAGS,
   ...PREPROCESSING_FLAGS,
+  ...HEALTH_FLAGS,
   seed: { kind: 'string', placeholder: '<S>', description: 'random seed (default 0): same seed, same bytes' },
   batch: { kind: 'string', placeholder: '<B>', description: 'samples per batch (default 32)' },
   limit: { kind: 'string', placeholder: '<N>', description: 'use only the first N samples' },
@@ -66,7 +71,7 @@ export async function sweepCommand(args: ParsedArgs): Promise<void> {
   });
   try {
     const target = targetFromFlag(args.values.get('target'), inputs.samples.classNames);
-    const rawOptions = searchOptionsFromFlags(args, target);
+    const rawOptions = { ...searchOptionsFromFlags(args, target), ...extraSearchOptionsFromFlags(args) };
     const config: SweepConfig = {
       attacks: attacks.map((id) => {
         const attack = getAttack(id);
@@ -79,7 +84,8 @@ export async function sweepCommand(args: ParsedArgs): Promise<void> {
       batchSize,
     };
     const logits = makeLogitsFn(inputs.model, inputs.preprocessing);
-    const result = await runSweep({ logits, samples: inputs.samples, config }, { onProgress: stderrProgress() });
+    const collector = flipCollectorFor(inputs.samples);
+    const result = await runSweep({ logits, samples: inputs.samples, config }, { onProgress: stderrProgress(), onAdversarial: collector.onAdversarial });
     await mkdir(outDir, { recursive: true });
     await writeFile(path.join(outDir, 'curve.csv'), curveCsv(result));
     await writeFile(path.join(outDir, 'samples.csv'), samplesCsv(result));
@@ -91,13 +97,21 @@ export async function sweepCommand(args: ParsedArgs): Promise<void> {
       model: inputs.model.description,
       classNames: inputs.samples.classNames,
       backend,
-      commandLine: ['npm', 'run', '-s', 'cli', '--', 'sweep', ...process.argv.slice(3)],
+      commandLine: commandLine(),
     });
     await writeFile(path.join(outDir, 'run.json'), json);
-    process.stderr.write(`brink: clean accuracy ${(result.cleanAccuracy * 100).toFixed(2)} %; wrote curve.csv, samples.csv, run.json to ${outDir}\n`);
+    const health = args.flags.has('health') ? await writeHealthCsv(inputs, logits, result, rawOptions, outDir) : null;
+    await writeSavedRun({ outDir, inputs, result, backend, commandLine: commandLine(), collector, health: health !== null });
+    const written = health === null ? 'curve.csv, samples.csv, run.json, run.brink.json' : `curve.csv, samples.csv, run.json, run.brink.json, health.csv (${health} warning${health === 1 ? '' : 's'})`;
+    process.stderr.write(`brink: clean accuracy ${(result.cleanAccuracy * 100).toFixed(2)} %; wrote ${written} to ${outDir}\n`);
   } finally {
     inputs.model.dispose();
   }
+}
+
+/** How this sweep was invoked, as recorded in run.json and the saved run. */
+function commandLine(): string[] {
+  return ['npm', 'run', '-s', 'cli', '--', 'sweep', ...process.argv.slice(3)];
 }
 
 function parseAttackList(text: string, norm: Norm): AttackId[] {

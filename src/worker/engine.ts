@@ -4,9 +4,10 @@
  * anything the core already does.
  */
 import * as tf from '@tensorflow/tfjs';
+import { captureModelInput, extent, spreadIndices } from './preview.ts';
 import { initBackend, type BackendInfo } from '../core/backend/initBackend.ts';
 import { loadModelFromFiles } from '../core/models/loadModel.ts';
-import { makeLogitsFn, preprocessingFor, validatePreprocessing } from '../core/models/pipeline.ts';
+import { makeLogitsFn, preprocessingFor } from '../core/models/pipeline.ts';
 import { buildSampleSet, parseClassNames, type SampleSetBuild } from '../core/samples/buildSampleSet.ts';
 import { isImageName } from '../core/samples/paths.ts';
 import { runSweep, type SweepHooks } from '../core/sweep/runSweep.ts';
@@ -244,62 +245,4 @@ async function firstImageSize(files: readonly NamedBytes[]): Promise<{ height: n
     throw new Error(`unreadable image ${first.name}: ${err instanceof Error ? err.message : String(err)}`);
   }
   return { height: decoded.height, width: decoded.width, channels: 3 };
-}
-
-function extent(values: Float32Array): { min: number; max: number } {
-  let min = Infinity;
-  let max = -Infinity;
-  for (const v of values) {
-    if (v < min) min = v;
-    if (v > max) max = v;
-  }
-  return { min, max };
-}
-
-/** Up to `count` indices spread over the classes (round-robin by class, in set order). */
-export function spreadIndices(labels: Int32Array, count: number): number[] {
-  const byClass = new Map<number, number[]>();
-  labels.forEach((label, i) => {
-    const list = byClass.get(label) ?? [];
-    list.push(i);
-    byClass.set(label, list);
-  });
-  const queues = [...byClass.entries()].sort((a, b) => a[0] - b[0]).map(([, list]) => list);
-  const out: number[] = [];
-  for (let round = 0; out.length < Math.min(count, labels.length); round++) {
-    for (const queue of queues) {
-      const index = queue[round];
-      if (index !== undefined && out.length < count) out.push(index);
-    }
-  }
-  return out;
-}
-
-/**
- * The model's input for one image, taken where the core's pipeline hands it to the model: the
- * model is wrapped so its forward() keeps a copy of what it receives. No preprocessing is redone here.
- */
-async function captureModelInput(model: LoadedModel, pre: Preprocessing, pixels: Float32Array, shape: [number, number, number, number]): Promise<Float32Array> {
-  const problem = validatePreprocessing(pre, model.description);
-  if (problem !== null) throw new Error(problem);
-  let captured: tf.Tensor | null = null;
-  const spy: LoadedModel = {
-    description: model.description,
-    forward: (input) => {
-      captured = tf.keep(input.clone());
-      return model.forward(input);
-    },
-    dispose: () => undefined,
-  };
-  const logits = makeLogitsFn(spy, pre);
-  tf.tidy(() => {
-    logits(tf.tensor4d(pixels, shape));
-  });
-  const kept = captured as tf.Tensor | null;
-  if (kept === null) throw new Error('The model was not called.');
-  try {
-    return new Float32Array(await kept.data());
-  } finally {
-    kept.dispose();
-  }
 }

@@ -20,23 +20,24 @@ export const CHROMIUM_ARGS = [
   '--disable-sync',
 ];
 
-/** True when a URL belongs to the app: its own origin, or a blob:/data: URL the page made itself. */
-export function isOwnUrl(url, appOrigin) {
+/** True when a URL belongs to the app: one of its own origins, or a blob:/data: URL the page made itself. */
+export function isOwnUrl(url, appOrigins) {
   if (url.startsWith('data:')) return true;
-  if (url.startsWith('blob:')) return url.slice(5).startsWith(appOrigin);
+  const plain = url.startsWith('blob:') ? url.slice(5) : url;
   try {
-    return new URL(url).origin === appOrigin;
+    return appOrigins.has(new URL(plain).origin);
   } catch {
     return false;
   }
 }
 
 /**
- * Launch the browser on a fresh profile; returns { context, page, problems, close }. `problems`
- * collects console errors, uncaught errors and foreign requests as lines of text.
+ * Launch the browser on a fresh profile; returns { context, page, problems, foreign, allow, close }.
+ * `problems` collects console errors and uncaught errors, `foreign` requests to other origins;
+ * `allow(url)` adds another origin of the app (a second server).
  */
 export async function launch(appUrl) {
-  const appOrigin = new URL(appUrl).origin;
+  const appOrigins = new Set([new URL(appUrl).origin]);
   const profile = mkdtempSync(path.join(os.tmpdir(), 'brink-e2e-profile-'));
   const context = await chromium.launchPersistentContext(profile, {
     executablePath: CHROMIUM,
@@ -51,7 +52,7 @@ export async function launch(appUrl) {
     if (message.type() === 'error') problems.push(`console error (${where}): ${message.text()}`);
   };
   context.on('request', (request) => {
-    if (!isOwnUrl(request.url(), appOrigin)) foreign.push(request.url());
+    if (!isOwnUrl(request.url(), appOrigins)) foreign.push(request.url());
   });
   const watchPage = (page) => {
     page.on('console', watchConsole('page'));
@@ -66,6 +67,7 @@ export async function launch(appUrl) {
     page,
     problems,
     foreign,
+    allow: (url) => appOrigins.add(new URL(url).origin),
     close: async () => {
       await context.close();
       rmSync(profile, { recursive: true, force: true });

@@ -40,12 +40,16 @@ export function runCli(args, cwd) {
   });
 }
 
-/** Run the CLI for this run record and return its files' bytes. */
+/**
+ * Run the CLI for this run record on the demo files exactly as the browser was served them (the
+ * built copies in dist/, so a demo asset rewritten after the build cannot skew the comparison) and
+ * return its files' bytes.
+ */
 export async function cliFilesFor(record, repoRoot) {
   const out = mkdtempSync(path.join(os.tmpdir(), 'brink-e2e-cli-'));
   const args = cliArgsFor(record, {
-    model: 'public/demo/models/standard/model.json',
-    samples: 'public/demo/samples',
+    model: 'dist/demo/models/standard/model.json',
+    samples: 'dist/demo/samples',
     out,
   });
   const result = await runCli(args, repoRoot);

@@ -74,9 +74,10 @@ async function main() {
 
     await check('the demo button runs a sweep and draws a curve and flipped images', async () => {
       const demo = await runDemo(page, ARTIFACTS);
+      demo.runStatus = await textOf(page, '[data-testid=nav-run] .step-status');
       measured.demoSweep = demo;
       expect(demo.flips >= 1, 'no flipped image in the gallery');
-      return `curve after ${(demo.untilChart / 1000).toFixed(1)} s, ${demo.flips} flipped images`;
+      return `curve after ${(demo.untilChart / 1000).toFixed(1)} s (sweep ${demo.runStatus}), ${demo.flips} flipped images`;
     });
 
     await check('clicking a flipped image shows its confidence against ε', () => openFlipDetail(page, ARTIFACTS));
@@ -102,6 +103,8 @@ async function main() {
       expect(record !== null && browserCurve !== null, 'no browser export to compare');
       const cli = await cliFilesFor(record, ROOT);
       measured.cli = { ms: cli.ms, command: `npm run -s cli -- ${cli.args.join(' ')}` };
+      expect(cli.runJson.model.sha256 === record.model.sha256, `the CLI read other model files (SHA-256 ${cli.runJson.model.sha256} vs the browser's ${record.model.sha256})`);
+      expect(cli.runJson.samples.sha256 === record.samples.sha256, `the CLI read other sample files (SHA-256 ${cli.runJson.samples.sha256} vs the browser's ${record.samples.sha256})`);
       expect(cli.curveCsv.equals(browserCurve), `curve.csv differs: ${firstDifference(browserCurve, cli.curveCsv)}`);
       expect(cli.samplesCsv.equals(browserSamples), `samples.csv differs: ${firstDifference(browserSamples, cli.samplesCsv)}`);
       return `${cli.curveCsv.toString('utf8').trim().split('\n').length - 1} curve rows; CLI took ${(cli.ms / 1000).toFixed(1)} s`;
@@ -148,7 +151,7 @@ async function main() {
 
     await check('a running sweep can be cancelled midway and keeps its finished points', async () => {
       await openScreen(page, 'plan');
-      await page.getByLabel('Steps per restart').fill('60');
+      await page.fill('[data-option=steps] input[type=number]', '60');
       await openScreen(page, 'run');
       await page.click('[data-testid=run-button]');
       await page.waitForFunction(() => Number(document.querySelector('[data-testid=progress]')?.getAttribute('aria-valuenow') ?? 0) >= 3, null, { timeout: TIMEOUT.demo });
@@ -164,10 +167,33 @@ async function main() {
       return `stopped ${stopMs} ms after the click`;
     });
 
+    await check('the header switches to the adversarially trained demo model', async () => {
+      await openScreen(page, 'model');
+      await page.selectOption('[data-testid=demo-model-select]', 'hardened');
+      await waitForLabel(page, 'model-label', 'adversarially trained');
+      return await textOf(page, '[data-testid=model-label]');
+    });
+
+    await check('without cross-origin isolation the app runs single-threaded and says so', async () => {
+      const plain = await serveStatic(DIST, { isolated: false });
+      browser.allow(plain.url);
+      const other = await browser.context.newPage();
+      try {
+        await other.goto(plain.url);
+        const { badge } = await waitForDemoWorkspace(other);
+        expect(!(await other.evaluate(() => window.crossOriginIsolated)), 'the page is isolated although no COOP/COEP headers were sent');
+        expect(/single-threaded/.test(badge ?? '') && /1 thread\b/.test(badge ?? ''), `the badge should say single-threaded with 1 thread: "${badge}"`);
+        return badge;
+      } finally {
+        await other.close();
+        await plain.close();
+      }
+    });
+
     await check('no console errors, no uncaught errors, no request to another origin', async () => {
       expect(browser.problems.length === 0, `${browser.problems.length} problem(s):\n    ${browser.problems.slice(0, 10).join('\n    ')}`);
       expect(browser.foreign.length === 0, `${browser.foreign.length} request(s) to other origins: ${browser.foreign.slice(0, 5).join(', ')}`);
-      return `${server.requests.length} requests, all to ${server.url}`;
+      return `${server.requests.length} requests to ${server.url} and none elsewhere`;
     });
   } finally {
     await browser.close();

@@ -16,12 +16,15 @@ describe('robustness chart data', () => {
   it('draws per attack a closed Wilson band and a line, then the clean accuracy across the budget range', () => {
     const traces = curveTraces(points, 0.9) as { x: number[]; y: number[]; name: string; fill?: string }[];
     expect(traces).toHaveLength(5);
+    // Attacks in first-seen order: PGD (band, line), then FGSM (band, line), then the clean line.
     const [band, line] = traces;
     // The band polygon runs along the upper bounds by ascending ε and back along the lower bounds.
     expect(band!.x).toEqual([0, 8 / 255, 8 / 255, 0]);
-    expect(band!.y).toEqual([wilsonInterval(90, 100).high, wilsonInterval(40, 100).high, wilsonInterval(40, 100).low, wilsonInterval(90, 100).low]);
+    expect(band!.y).toEqual([wilsonInterval(90, 100).high, wilsonInterval(20, 100).high, wilsonInterval(20, 100).low, wilsonInterval(90, 100).low]);
     expect(band!.fill).toBe('toself');
-    expect(line!.y).toEqual([0.9, 0.4]);
+    expect(line!.name).toContain('PGD');
+    expect(line!.y).toEqual([0.9, 0.2]);
+    expect(traces[3]!.y).toEqual([0.9, 0.4]);
     const clean = traces[4]!;
     expect(clean.x).toEqual([0, 8 / 255]);
     expect(clean.y).toEqual([0.9, 0.9]);

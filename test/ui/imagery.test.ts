@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { DIVERGING, divergingColour, modelInputToRgba, perturbationToRgba, pixelsToRgba } from '../../src/ui/lib/imagery.ts';
 import { buffersOf } from '../../src/worker/protocol.ts';
-import { spreadIndices } from '../../src/worker/engine.ts';
+import { spreadIndices } from '../../src/worker/preview.ts';
 
 // Expected bytes follow from the definitions (closed form): v·255 rounded, linear interpolation of colours.
 describe('pixel rendering', () => {

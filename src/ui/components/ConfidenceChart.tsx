@@ -2,7 +2,7 @@
 import { useMemo, type ReactElement } from 'react';
 import type { Data, Layout } from 'plotly.js-dist-min';
 import type { SampleRecord } from '../../core/sweep/types.ts';
-import { ATTACK_COLOURS } from '../lib/figure.ts';
+import { ATTACK_COLOURS, attackLabel } from '../lib/figure.ts';
 import { usePlot } from './usePlot.ts';
 
 export interface ConfidenceChartProps {
@@ -19,7 +19,7 @@ export function confidenceTraces(record: SampleRecord, classNames: readonly stri
     return {
       type: 'scatter',
       mode: 'lines+markers',
-      name: attack.toUpperCase(),
+      name: attackLabel(attack),
       x: outcomes.map((o) => o.eps),
       y: outcomes.map((o) => o.advConf),
       text: outcomes.map((o) => `${classNames[o.advPred] ?? o.advPred}${o.advPred === record.label ? ' (right)' : ' (wrong)'}`),

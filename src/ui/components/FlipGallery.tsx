@@ -2,17 +2,19 @@
  * The flipped images: original | adversarial | perturbation (diverging colours) | labels, per
  * sample; filter by class, sort by flipping ε; click one to see its confidence against ε.
  */
-import { useMemo, useState, type ReactElement } from 'react';
+import { useEffect, useMemo, useState, type ReactElement } from 'react';
 import type { AttackId } from '../../core/attacks/types.ts';
 import type { SweepResult } from '../../core/sweep/types.ts';
 import type { FlipImage } from '../../worker/protocol.ts';
 import { useWorkspace } from '../store/workspace.ts';
+import { GALLERY_PAGE, loadGalleryImages } from '../store/actions.ts';
 import { attacksIn, flippedItems, type FlipItem, type FlipOrder } from '../lib/gallery.ts';
 import { describeEps, formatEps } from '../lib/budgets.ts';
 import { perturbationToRgba, pixelsToRgba, type ImageSize } from '../lib/imagery.ts';
 import { percent } from '../lib/format.ts';
 import { PixelCanvas } from './PixelCanvas.tsx';
 import { ConfidenceChart } from './ConfidenceChart.tsx';
+import { attackLabel } from '../lib/figure.ts';
 
 function Images({ image, size }: { image: FlipImage; size: ImageSize }): ReactElement {
   const views = useMemo(() => {
@@ -68,6 +70,12 @@ export function FlipGallery({ result }: { result: SweepResult }): ReactElement {
   const [selected, setSelected] = useState<number | null>(null);
   const shown = attack !== null && attacks.includes(attack) ? attack : (attacks[attacks.length - 1] ?? null);
   const items = useMemo(() => (shown === null ? [] : flippedItems(result.records, shown, classIndex, order)), [result, shown, classIndex, order]);
+  const [pages, setPages] = useState(1);
+  const runId = useWorkspace((s) => s.run.id);
+  const visible = useMemo(() => items.slice(0, pages * GALLERY_PAGE), [items, pages]);
+  useEffect(() => {
+    if (shown !== null) void loadGalleryImages(runId, visible.map((i) => ({ index: i.record.index, attack: shown })));
+  }, [runId, shown, visible]);
   const detail = result.records.find((r) => r.index === selected) ?? null;
   return (
     <section className="panel">
@@ -78,7 +86,7 @@ export function FlipGallery({ result }: { result: SweepResult }): ReactElement {
           <select value={shown ?? ''} onChange={(e) => setAttack(e.target.value as AttackId)}>
             {attacks.map((a) => (
               <option key={a} value={a}>
-                {a.toUpperCase()}
+                {attackLabel(a)}
               </option>
             ))}
           </select>
@@ -114,7 +122,7 @@ export function FlipGallery({ result }: { result: SweepResult }): ReactElement {
       )}
       {items.length === 0 && <p className="muted">No image flipped{classIndex !== null ? ' in this class' : ''} within these budgets.</p>}
       <ul className="flips" data-testid="flip-gallery">
-        {items.map((item) => {
+        {visible.map((item) => {
           const image = shown === null ? undefined : gallery.images[`${shown}|${item.record.index}`];
           return (
             <li key={item.record.index} className={selected === item.record.index ? 'flip selected' : 'flip'}>
@@ -126,6 +134,11 @@ export function FlipGallery({ result }: { result: SweepResult }): ReactElement {
           );
         })}
       </ul>
+      {visible.length < items.length && (
+        <button type="button" onClick={() => setPages(pages + 1)}>
+          Show the next {Math.min(GALLERY_PAGE, items.length - visible.length)} of {items.length - visible.length} more
+        </button>
+      )}
     </section>
   );
 }

@@ -46,7 +46,11 @@ export function Header(): ReactElement {
             <option value="hardened">adversarially trained</option>
           </select>
         </label>
-        <button type="button" className="primary" data-testid="demo-button" disabled={!ready || running} onClick={() => void runDemo()}>
+        <button
+          type="button"
+          className="primary"
+          title="Loads the demo model and images, sets the demo plan (FGSM and PGD, L∞, budgets up to 8/255) and runs it"
+          data-testid="demo-button" disabled={!ready || running} onClick={() => void runDemo()}>
           Run the demo sweep
         </button>
       </div>

@@ -3,6 +3,7 @@ import type { ReactElement } from 'react';
 import type { CurvePoint } from '../../core/sweep/types.ts';
 import { describeEps, formatEps } from '../lib/budgets.ts';
 import { percent } from '../lib/format.ts';
+import { attackLabel } from '../lib/figure.ts';
 
 /** The table. */
 export function ResultsTable({ points }: { points: readonly CurvePoint[] }): ReactElement {
@@ -21,7 +22,7 @@ export function ResultsTable({ points }: { points: readonly CurvePoint[] }): Rea
       <tbody>
         {points.map((p) => (
           <tr key={`${p.attack}-${p.eps}`}>
-            <td>{p.attack.toUpperCase()}</td>
+            <td>{attackLabel(p.attack)}</td>
             <td>{p.norm === 'linf' ? describeEps(p.eps) : formatEps(p.eps)}</td>
             <td>
               {p.robust} / {p.cleanCorrect} / {p.samples}

@@ -3,6 +3,7 @@ import type { ReactElement } from 'react';
 import { useWorkspace } from '../store/workspace.ts';
 import { count, duration, runFigures } from '../lib/format.ts';
 import { describeEps } from '../lib/budgets.ts';
+import { attackLabel } from '../lib/figure.ts';
 
 /** The bar and its figures. */
 export function RunProgress(): ReactElement {
@@ -28,8 +29,8 @@ export function RunProgress(): ReactElement {
         {run.status === 'running' && p === null && 'measuring clean predictions…'}
         {p !== null && figures !== null && (
           <>
-            {count(p.done)} of about {count(p.total)} gradient evaluations · {count(figures.rate)} per second ·{' '}
-            {run.status === 'running' ? `about ${duration(figures.secondsLeft)} left · now ${p.attack.toUpperCase()} at ε = ${describeEps(p.eps)}` : `took ${duration(run.elapsedMs / 1000)}`}
+            {count(p.done)} of about {count(p.total)} model evaluations · {count(figures.rate)} per second ·{' '}
+            {run.status === 'running' ? `about ${duration(figures.secondsLeft)} left · now ${attackLabel(p.attack)} at ε = ${describeEps(p.eps)}` : `took ${duration(run.elapsedMs / 1000)}`}
           </>
         )}
       </p>

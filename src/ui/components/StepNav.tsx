@@ -2,7 +2,8 @@
 import type { ReactElement } from 'react';
 import { useWorkspace } from '../store/workspace.ts';
 import { SCREENS, type ScreenId, type WorkspaceState } from '../store/state.ts';
-import { percent } from '../lib/format.ts';
+import { duration, percent } from '../lib/format.ts';
+import { attackLabel } from '../lib/figure.ts';
 
 const TITLES: Readonly<Record<ScreenId, string>> = {
   model: 'Model',
@@ -24,13 +25,14 @@ export function stepStatus(screen: ScreenId, s: WorkspaceState): string {
     case 'preprocessing':
       return s.clean.value ? `clean accuracy ${percent(s.clean.value.accuracy)}` : s.model.value ? 'check what the model sees' : '';
     case 'plan':
-      return `${s.plan.attacks.map((a) => a.toUpperCase()).join(' + ') || 'no search'} · ${s.plan.norm === 'linf' ? 'L∞' : 'L2'}`;
+      return `${s.plan.attacks.map((a) => attackLabel(a)).join(' + ') || 'no search'} · ${s.plan.norm === 'linf' ? 'L∞' : 'L2'}`;
     case 'run':
-      return { idle: 'not started', running: 'running…', done: 'finished', cancelled: 'cancelled', failed: 'stopped with a problem' }[s.run.status];
+      if (s.run.status === 'done') return `finished in ${duration(s.run.elapsedMs / 1000)}`;
+      return { idle: 'not started', running: 'running…', cancelled: 'cancelled', failed: 'stopped with a problem' }[s.run.status];
     case 'results':
-      return s.run.result ? `${s.run.result.curve.length} points` : 'after a run';
+      return s.run.result ? `${s.run.result.curve.length} points${s.run.status === 'running' ? ' so far' : ''}` : 'after a run';
     case 'exports':
-      return s.run.result ? 'ready' : 'after a run';
+      return s.run.status === 'running' ? 'after the run' : s.run.result ? 'ready' : 'after a run';
   }
 }
 

@@ -50,8 +50,11 @@ export async function fetchDemoModel(id: DemoModelId): Promise<{ files: NamedByt
   const folder = `demo/models/${id}/`;
   const modelJson = await fetchBytes(`${folder}model.json`);
   const shards = await fetchAll(shardPaths(JSON.parse(new TextDecoder().decode(modelJson))), folder);
-  const cardBytes = await fetchBytes(`${folder}card.json`);
-  const card = JSON.parse(new TextDecoder().decode(cardBytes)) as Record<string, unknown>;
+  // The card only describes the model; without it the model still loads.
+  const card = await fetchBytes(`${folder}card.json`).then(
+    (bytes) => JSON.parse(new TextDecoder().decode(bytes)) as Record<string, unknown>,
+    () => null,
+  );
   return { files: [{ name: 'model.json', bytes: modelJson }, ...shards], card, label: DEMO_MODEL_LABELS[id] };
 }
 

@@ -5,12 +5,21 @@
  */
 import type { Data, Layout } from 'plotly.js-dist-min';
 import type { AttackId } from '../../core/attacks/types.ts';
+import { ATTACKS } from '../../core/attacks/registry.ts';
 import type { CurvePoint } from '../../core/sweep/types.ts';
 import type { Norm } from '../../core/types.ts';
 import { formatEps, greyLevels } from './budgets.ts';
 
 /** Line colours per attack (our own palette), and the clean reference. */
-export const ATTACK_COLOURS: Readonly<Record<AttackId, string>> = { fgsm: '#2b6a9a', pgd: '#b2552b' };
+export const ATTACK_COLOURS: Readonly<Record<AttackId, string>> = {
+  fgsm: '#2b6a9a',
+  pgd: '#b2552b',
+  'apgd-ce': '#6a4f9c',
+  'apgd-dlr': '#3d7a4c',
+  square: '#a07818',
+  deepfool: '#8d3a5f',
+  noise: '#7b7f83',
+};
 export const CLEAN_COLOUR = '#59656d';
 
 function bandColour(hex: string): string {
@@ -18,8 +27,9 @@ function bandColour(hex: string): string {
   return `rgba(${(n >> 16) & 255}, ${(n >> 8) & 255}, ${n & 255}, 0.16)`;
 }
 
-function attackLabel(attack: AttackId): string {
-  return attack.toUpperCase();
+/** The attack's own label from its metadata (e.g. "APGD-CE"), or the id for an unknown one. */
+export function attackLabel(attack: AttackId): string {
+  return ATTACKS.find((a) => a.meta.id === attack)?.meta.label ?? attack;
 }
 
 /** The points of each attack, in first-seen order, sorted by ε. */

@@ -1,16 +1,15 @@
 /**
  * The sweep plan as the workbench edits it, and its translation into the core's SweepConfig. Like
  * the command line, one set of search options is given and each attack takes the options its
- * metadata declares; the attacks' own validate() completes and checks them.
+ * metadata declares; the attacks' own validate() completes and checks them. The option form is
+ * generated from the attacks' metadata (see optionUses).
  */
 import { ATTACKS, getAttack } from '../../core/attacks/registry.ts';
-import type { AttackId, LossKind, TargetMode } from '../../core/attacks/types.ts';
+import type { AttackId, TargetMode } from '../../core/attacks/types.ts';
 import { estimateSweepCost } from '../../core/sweep/runSweep.ts';
 import type { SweepConfig } from '../../core/sweep/types.ts';
 import type { Norm } from '../../core/types.ts';
 import { parseBudgets } from './budgets.ts';
-
-export type TargetChoice = 'untargeted' | 'least-likely' | 'class';
 
 /** Everything the plan screen edits (persisted). */
 export interface PlanSettings {
@@ -18,42 +17,39 @@ export interface PlanSettings {
   readonly norm: Norm;
   /** The budget editor's text (see budgets.ts). */
   readonly budgets: string;
-  readonly steps: number;
-  /** Step size in pixel units; null = automatic (2.5·ε/steps). */
-  readonly stepSize: number | null;
-  readonly restarts: number;
-  readonly randomStart: boolean;
-  readonly loss: LossKind;
-  readonly target: TargetChoice;
-  readonly targetClass: number;
+  /**
+   * Search options the user set, shared by every chosen search that declares them (as the CLI's
+   * flags are); an option not set here keeps each search's own default.
+   */
+  readonly options: Readonly<Record<string, unknown>>;
   readonly seed: number;
   readonly batchSize: number;
 }
 
-/** The demo plan: both searches, L∞, five budgets up to 8/255, PGD with its default 10 steps. */
+/** The demo plan: FGSM and PGD with their defaults, L∞, five budgets up to 8/255. */
 export const DEMO_PLAN: PlanSettings = {
   attacks: ['fgsm', 'pgd'],
   norm: 'linf',
   budgets: '0, 1/255, 2/255, 4/255, 8/255',
-  steps: 10,
-  stepSize: null,
-  restarts: 1,
-  randomStart: true,
-  loss: 'ce',
-  target: 'untargeted',
-  targetClass: 0,
+  options: {},
   seed: 0,
   batchSize: 32,
 };
 
-/** The option names the selected attacks declare, with the attacks that use each. */
-export function optionUsers(attacks: readonly AttackId[]): Map<string, string[]> {
-  const users = new Map<string, string[]>();
+/** One option of the chosen searches: who declares it and their defaults. */
+export interface OptionUse {
+  readonly key: string;
+  readonly users: readonly { readonly id: AttackId; readonly label: string; readonly fallback: unknown }[];
+}
+
+/** The options the chosen searches declare (in first-seen order), with each search's default. */
+export function optionUses(attacks: readonly AttackId[]): OptionUse[] {
+  const uses = new Map<string, OptionUse['users'][number][]>();
   for (const id of attacks) {
     const meta = getAttack(id).meta;
-    for (const key of Object.keys(meta.defaults as object)) users.set(key, [...(users.get(key) ?? []), meta.label]);
+    for (const [key, fallback] of Object.entries(meta.defaults as object)) uses.set(key, [...(uses.get(key) ?? []), { id, label: meta.label, fallback }]);
   }
-  return users;
+  return [...uses.entries()].map(([key, users]) => ({ key, users }));
 }
 
 /** All attacks the workbench offers, in menu order. */
@@ -61,21 +57,11 @@ export function attackChoices(): { id: AttackId; label: string; summary: string;
   return ATTACKS.map((a) => ({ id: a.meta.id, label: a.meta.label, summary: a.meta.summary, norms: a.meta.norms }));
 }
 
-function targetMode(plan: PlanSettings): TargetMode {
-  if (plan.target === 'class') return { kind: 'class', classIndex: plan.targetClass };
-  return { kind: plan.target };
-}
-
-/** The search options as one set, before each attack keeps its own (as the CLI's flags do). */
-export function rawSearchOptions(plan: PlanSettings): Record<string, unknown> {
-  return {
-    steps: plan.steps,
-    stepSize: plan.stepSize,
-    restarts: plan.restarts,
-    randomStart: plan.randomStart,
-    loss: plan.loss,
-    target: targetMode(plan),
-  };
+/** The shared option value to show: the user's, else the default when all users agree on it (else undefined). */
+export function shownOption(plan: PlanSettings, use: OptionUse): unknown {
+  if (use.key in plan.options) return plan.options[use.key];
+  const first = JSON.stringify(use.users[0]?.fallback);
+  return use.users.every((u) => JSON.stringify(u.fallback) === first) ? use.users[0]?.fallback : undefined;
 }
 
 export type ConfigBuild = { readonly ok: true; readonly config: SweepConfig } | { readonly ok: false; readonly error: string };
@@ -85,12 +71,13 @@ export function toSweepConfig(plan: PlanSettings, classCount: number | null): Co
   if (plan.attacks.length === 0) return { ok: false, error: 'Choose at least one search.' };
   const budgets = parseBudgets(plan.budgets, plan.norm);
   if (!budgets.ok) return { ok: false, error: budgets.error };
-  if (plan.target === 'class' && classCount !== null && plan.targetClass >= classCount) {
-    return { ok: false, error: `The target class ${plan.targetClass} does not exist: the model has ${classCount} classes.` };
+  const target = plan.options['target'] as TargetMode | undefined;
+  if (target?.kind === 'class' && classCount !== null && target.classIndex >= classCount) {
+    return { ok: false, error: `The target class ${target.classIndex} does not exist: the model has ${classCount} classes.` };
   }
   if (!Number.isSafeInteger(plan.seed) || plan.seed < 0) return { ok: false, error: 'The seed must be a whole number ≥ 0.' };
   if (!Number.isInteger(plan.batchSize) || plan.batchSize < 1) return { ok: false, error: 'The batch size must be a whole number ≥ 1.' };
-  const raw = rawSearchOptions(plan);
+  const raw = plan.options;
   try {
     const attacks = plan.attacks.map((id) => {
       const meta = getAttack(id).meta;

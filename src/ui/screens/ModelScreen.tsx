@@ -29,7 +29,7 @@ function Description({ d }: { d: ModelDescription }): ReactElement {
     ['classes', String(d.numClasses)],
     ['output', d.outputKind === 'logits' ? 'raw class scores (logits)' : 'probabilities (Brink takes their log for the losses)'],
     ['parameters', count(d.parameterCount)],
-    ['engine', backend === null ? '–' : `${formatBackend(backend.backend)}${backend.isolated ? '' : ' (threads need cross-origin isolation)'}`],
+    ['engine', backend === null ? '–' : `${formatBackend(backend.backend)}${backend.isolated ? '' : ' (threads need cross-origin isolation)'}${backend.backend.notice ? ` — ${backend.backend.notice}` : ''}`],
   ];
   if (d.onnx) rows.push(['ONNX', `opset ${d.onnx.opset}, input ${d.onnx.inputName}, output ${d.onnx.outputName}, made by ${d.onnx.producer || 'unknown'}`]);
   return (

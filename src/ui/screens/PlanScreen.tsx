@@ -1,12 +1,12 @@
 /** Step 4: which searches, which threat model, which budgets; the form follows the attacks' metadata. */
 import type { ReactElement } from 'react';
-import type { AttackId, LossKind } from '../../core/attacks/types.ts';
+import type { AttackId } from '../../core/attacks/types.ts';
 import type { Norm } from '../../core/types.ts';
 import { BudgetEditor } from '../components/BudgetEditor.tsx';
 import { useWorkspace } from '../store/workspace.ts';
-import { attackChoices, optionUsers, planCost, toSweepConfig, type TargetChoice } from '../lib/plan.ts';
+import { attackChoices, planCost, toSweepConfig } from '../lib/plan.ts';
+import { SearchOptions } from '../components/SearchOptions.tsx';
 import { count, duration } from '../lib/format.ts';
-import { describeEps } from '../lib/budgets.ts';
 
 function NumberField(props: { label: string; value: number; min: number; step?: number; disabled: boolean; onChange: (v: number) => void; note?: string }): ReactElement {
   return (
@@ -39,8 +39,8 @@ function Estimate(): ReactElement {
   const cost = planCost(build.config, guess);
   return (
     <p className="estimate" data-testid="plan-estimate">
-      At most <strong>{count(cost)}</strong> gradient evaluations (one forward and backward pass for one image), counting every clean-correct image at every budget above 0; images that flip
-      drop out, so the real number is smaller.{lastRate > 0 ? ` At the last run's rate that is up to ${duration(cost / lastRate)}.` : ''}
+      At most <strong>{count(cost)}</strong> model evaluations (a forward and backward pass for one image; a forward pass for the searches without gradients), counting every
+      clean-correct image at every budget above 0; images that flip drop out, so the real number is smaller.{lastRate > 0 ? ` At the last run's rate that is up to ${duration(cost / lastRate)}.` : ''}
     </p>
   );
 }
@@ -49,14 +49,9 @@ function Estimate(): ReactElement {
 export function PlanScreen(): ReactElement {
   const plan = useWorkspace((s) => s.plan);
   const update = useWorkspace((s) => s.updatePlan);
-  const classNames = useWorkspace((s) => s.samples.value?.classNames ?? []);
-  const numClasses = useWorkspace((s) => s.model.value?.description.numClasses ?? classNames.length);
   const running = useWorkspace((s) => s.run.status === 'running');
   const goTo = useWorkspace((s) => s.goTo);
-  const users = optionUsers(plan.attacks);
-  const usedBy = (key: string): string | null => (users.has(key) ? `used by ${users.get(key)!.join(', ')}` : null);
   const toggle = (id: AttackId, on: boolean): void => update({ attacks: attackChoices().map((a) => a.id).filter((a) => (a === id ? on : plan.attacks.includes(a))) });
-  const autoStep = plan.stepSize === null;
   return (
     <div className="stack">
       <h2>Sweep plan</h2>
@@ -83,65 +78,8 @@ export function PlanScreen(): ReactElement {
         </fieldset>
         <BudgetEditor text={plan.budgets} norm={plan.norm} disabled={running} onChange={(budgets) => update({ budgets })} />
       </section>
+      <SearchOptions />
       <section className="panel form">
-        <h3>Search settings</h3>
-        {usedBy('steps') !== null && (
-          <div className="row">
-            <NumberField label="Steps per restart" value={plan.steps} min={1} disabled={running} onChange={(steps) => update({ steps: Math.round(steps) })} note={usedBy('steps')!} />
-            <NumberField label="Restarts" value={plan.restarts} min={1} disabled={running || !plan.randomStart} onChange={(restarts) => update({ restarts: Math.round(restarts) })} note={usedBy('restarts') ?? ''} />
-            <label className="field">
-              <span>
-                <input type="checkbox" checked={plan.randomStart} disabled={running} onChange={(e) => update({ randomStart: e.target.checked, ...(e.target.checked ? {} : { restarts: 1 }) })} /> Start at a
-                random point of the ε-ball
-              </span>
-              <span className="muted small">{usedBy('randomStart')}; without it the search starts at the clean image and restarts would repeat it</span>
-            </label>
-          </div>
-        )}
-        {usedBy('stepSize') !== null && (
-          <div className="row">
-            <label className="field">
-              <span>
-                <input type="checkbox" checked={autoStep} disabled={running} onChange={(e) => update({ stepSize: e.target.checked ? null : 1 / 255 })} /> Step size 2.5·ε / steps
-              </span>
-              <span className="muted small">{usedBy('stepSize')}; untick to set a fixed step in pixel units</span>
-            </label>
-            {!autoStep && (
-              <NumberField label="Step size" value={plan.stepSize!} min={0} step={0.001} disabled={running} onChange={(v) => v > 0 && update({ stepSize: v })} note={describeEps(plan.stepSize!)} />
-            )}
-          </div>
-        )}
-        <div className="row">
-          <label className="field">
-            Loss the search pushes up
-            <select value={plan.loss} disabled={running} onChange={(e) => update({ loss: e.target.value as LossKind })}>
-              <option value="ce">cross-entropy</option>
-              <option value="margin">margin: best other class minus the true class</option>
-            </select>
-            <span className="muted small">{usedBy('loss')}</span>
-          </label>
-          <label className="field">
-            Aim
-            <select value={plan.target} disabled={running} onChange={(e) => update({ target: e.target.value as TargetChoice })}>
-              <option value="untargeted">any wrong class</option>
-              <option value="least-likely">each image's least likely class</option>
-              <option value="class">one chosen class</option>
-            </select>
-            <span className="muted small">{usedBy('target')}</span>
-          </label>
-          {plan.target === 'class' && (
-            <label className="field">
-              Class
-              <select value={plan.targetClass} disabled={running} onChange={(e) => update({ targetClass: Number(e.target.value) })}>
-                {Array.from({ length: numClasses }, (_, i) => (
-                  <option key={i} value={i}>
-                    {i}: {classNames[i] ?? `class ${i}`}
-                  </option>
-                ))}
-              </select>
-            </label>
-          )}
-        </div>
         <div className="row">
           <NumberField label="Seed" value={plan.seed} min={0} disabled={running} onChange={(seed) => update({ seed: Math.round(seed) })} note="the same seed gives the same results" />
           <NumberField label="Images per batch" value={plan.batchSize} min={1} disabled={running} onChange={(batchSize) => update({ batchSize: Math.round(batchSize) })} />

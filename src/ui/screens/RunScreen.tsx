@@ -8,6 +8,7 @@ import { duration } from '../lib/format.ts';
 import { RunProgress } from '../components/RunProgress.tsx';
 import { CurveChart } from '../components/CurveChart.tsx';
 import { ResultsTable } from '../components/ResultsTable.tsx';
+import { attackLabel } from '../lib/figure.ts';
 
 const STATUS_TEXT = {
   idle: 'Not started yet.',
@@ -33,7 +34,7 @@ export function RunScreen(): ReactElement {
       <section className="panel">
         {build.ok ? (
           <p>
-            {build.config.attacks.map((a) => a.id.toUpperCase()).join(' and ')}, {build.config.norm === 'linf' ? 'L∞' : 'L2'}, budgets{' '}
+            {build.config.attacks.map((a) => attackLabel(a.id)).join(' and ')}, {build.config.norm === 'linf' ? 'L∞' : 'L2'}, budgets{' '}
             {build.config.eps.map((e) => describeEps(e)).join(', ')}; seed {build.config.seed}.
           </p>
         ) : (

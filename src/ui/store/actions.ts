@@ -2,6 +2,7 @@
  * What the screens can do: every effect (worker calls, fetching the demo) goes through here and
  * ends in a store update. A failed load leaves the rest of the workspace as it was.
  */
+import type { AttackId } from '../../core/attacks/types.ts';
 import type { NamedBytes } from '../../core/types.ts';
 import { startEngineWorker, type EngineClient } from '../../worker/client.ts';
 import type { ModelInfo, SamplesInfo } from '../../worker/protocol.ts';
@@ -12,6 +13,8 @@ import { preprocessingForModel, runEnded, runFailed, runPointAdded, runProgresse
 
 let engine: EngineClient | null = null;
 let controller: AbortController | null = null;
+/** Gallery images already asked of the worker, for one run. */
+let requested: { runId: number; keys: Set<string> } = { runId: 0, keys: new Set() };
 
 const set = useWorkspace.setState;
 const get = useWorkspace.getState;
@@ -180,20 +183,42 @@ export async function runDemo(): Promise<void> {
   await startRun(true);
 }
 
-/** Fetch original and adversarial pixels of every flipped sample of run `runId`. */
+/** Flipped samples whose images are fetched right after a run, per attack (the rest on demand). */
+export const GALLERY_PAGE = 240;
+
+/** After a run: the images of the first page of flipped samples of each attack. */
 async function loadGallery(runId: number): Promise<void> {
   const result = get().run.result;
   if (result === null) return;
-  const items = result.records.flatMap((r) =>
-    Object.entries(r.minFlipEps)
-      .filter(([, eps]) => typeof eps === 'number' && eps > 0)
-      .map(([attack]) => ({ index: r.index, attack: attack as 'fgsm' | 'pgd' })),
-  );
-  if (items.length === 0) return;
-  const reply = await client().call('flipImages', { items });
+  const perAttack = new Map<AttackId, { index: number; attack: AttackId }[]>();
+  for (const r of result.records) {
+    for (const [attack, eps] of Object.entries(r.minFlipEps)) {
+      if (typeof eps !== 'number' || eps <= 0) continue;
+      const list = perAttack.get(attack as AttackId) ?? [];
+      if (list.length < GALLERY_PAGE) list.push({ index: r.index, attack: attack as AttackId });
+      perAttack.set(attack as AttackId, list);
+    }
+  }
+  await loadGalleryImages(runId, [...perAttack.values()].flat());
+}
+
+/** Fetch original and adversarial pixels of flipped samples not fetched yet (for run `runId`). */
+export async function loadGalleryImages(runId: number, items: readonly { index: number; attack: AttackId }[]): Promise<void> {
+  if (requested.runId !== runId) requested = { runId, keys: new Set() };
+  const keys = requested.keys;
+  // Each image is asked for once per run: one the worker does not hold is not asked for again.
+  const missing = items.filter((i) => !keys.has(`${i.attack}|${i.index}`));
+  if (missing.length === 0 || get().run.status === 'running') return;
+  for (const i of missing) keys.add(`${i.attack}|${i.index}`);
+  const reply = await client().call('flipImages', { items: missing });
   if (get().run.id !== runId) return;
-  const images = Object.fromEntries(reply.images.map((img) => [`${img.attack}|${img.index}`, img]));
-  set({ gallery: { runId, size: { height: reply.height, width: reply.width, channels: reply.channels }, images } });
+  set((s) => ({
+    gallery: {
+      runId,
+      size: { height: reply.height, width: reply.width, channels: reply.channels },
+      images: { ...(s.gallery.runId === runId ? s.gallery.images : {}), ...Object.fromEntries(reply.images.map((img) => [`${img.attack}|${img.index}`, img])) },
+    },
+  }));
 }
 
 /** Build an export file in the worker and hand it to the browser's download. */

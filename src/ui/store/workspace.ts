@@ -23,13 +23,17 @@ export const STORAGE_KEY = 'brink.workspace';
 
 type Persisted = Pick<WorkspaceState, 'plan' | 'preprocessingByModel'>;
 
+function isRecord(value: unknown): value is Record<string, unknown> {
+  return typeof value === 'object' && value !== null && !Array.isArray(value);
+}
+
 /** Persisted settings read back, completed with defaults for fields an older version did not write. */
 export function mergePersisted(persisted: unknown, current: Workspace): Workspace {
   if (persisted === null || typeof persisted !== 'object') return current;
   const p = persisted as Partial<Persisted>;
   return {
     ...current,
-    plan: { ...DEMO_PLAN, ...(p.plan ?? {}) },
+    plan: { ...DEMO_PLAN, ...(p.plan ?? {}), options: isRecord(p.plan?.options) ? p.plan.options : {} },
     preprocessingByModel: { ...(p.preprocessingByModel ?? {}) },
   };
 }
@@ -51,7 +55,7 @@ export const useWorkspace = create<Workspace>()(
     }),
     {
       name: STORAGE_KEY,
-      version: 1,
+      version: 2,
       storage: createJSONStorage(() => localStorage),
       partialize: (s): Persisted => ({ plan: s.plan, preprocessingByModel: s.preprocessingByModel }),
       merge: mergePersisted,
