@@ -16,7 +16,7 @@ import type { Norm } from '../core/types.ts';
 
 export const GATE_FLAGS: FlagTable = {
   run: { kind: 'string', placeholder: '<run-dir>', description: 'run folder written by sweep (or its run.brink.json)' },
-  'min-accuracy': { kind: 'string', repeatable: true, placeholder: '<acc>@<eps>', description: 'required robust accuracy at a budget, e.g. 0.6@0.0314, 60%@8/255 (repeatable)' },
+  'min-accuracy': { kind: 'string', repeatable: true, placeholder: '<acc>@<eps>', description: 'required robust accuracy at a budget of the run (or one at most 1e-4 above), e.g. 0.6@0.0314, 60%@8/255 (repeatable)' },
   attack: { kind: 'string', placeholder: '<id>', description: 'check only this search (default: every search in the run must hold)' },
   norm: { kind: 'string', placeholder: 'linf|l2', description: 'the norm the thresholds are meant for (the run must use it)' },
   'lower-bound': { kind: 'boolean', description: 'compare the Wilson 95 % lower bound instead of the measured accuracy' },
@@ -35,6 +35,11 @@ export interface Threshold {
 
 /** Budgets closer than this are the same budget. */
 const EPS_TOLERANCE = 1e-9;
+/**
+ * A run budget up to this much above the required one also counts (so 8/255 finds a run's 0.0314):
+ * a larger budget can only lower robust accuracy, since the sweep's budgets are nested balls.
+ */
+const EPS_ABOVE = 1e-4;
 
 /** Run the gate; resolves with 0 (all thresholds hold) or 1 (one failed, reason on stderr). */
 export async function gateCommand(args: ParsedArgs): Promise<number> {
@@ -96,7 +101,7 @@ export function firstFailure(saved: SavedRun, thresholds: readonly Threshold[], 
   const cancelled = complete ? '' : ' (the run was cancelled before it finished)';
   for (const t of thresholds) {
     for (const attack of attacks) {
-      const point = curve.find((p) => p.attack === attack && Math.abs(p.eps - t.eps) <= EPS_TOLERANCE);
+      const point = pointFor(curve, attack, t.eps);
       if (point === undefined) {
         const budgets = curve.filter((p) => p.attack === attack).map((p) => label(p.eps));
         return `${t.text}: the run has no ${attack} point at eps=${t.epsText}${cancelled} (${attack} budgets: ${budgets.length > 0 ? budgets.join(', ') : 'none'})`;
@@ -106,6 +111,12 @@ export function firstFailure(saved: SavedRun, thresholds: readonly Threshold[], 
     }
   }
   return null;
+}
+
+/** The run's point of this search at the required budget, or at the smallest budget just above it. */
+function pointFor(curve: readonly CurvePoint[], attack: AttackId, eps: number): CurvePoint | undefined {
+  const near = curve.filter((p) => p.attack === attack && p.eps >= eps - EPS_TOLERANCE && p.eps <= eps + EPS_ABOVE);
+  return near.sort((a, b) => a.eps - b.eps)[0];
 }
 
 function describeFailure(t: Threshold, p: CurvePoint, eps: string, lowerBound: boolean): string {

@@ -5,7 +5,7 @@
  */
 import { afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
 import path from 'node:path';
-import { cli, csvRows, sweepFixture, type CliResult } from '../report/cliRun.ts';
+import { cli, csvRows, sweepFixture } from '../report/cliRun.ts';
 import { parseArgs, UsageError } from '../../src/cli/args.ts';
 import { GATE_FLAGS, gateCommand } from '../../src/cli/gateCommand.ts';
 
@@ -49,7 +49,7 @@ const above = (p: { robust: number; samples: number }): string => ((p.robust + 0
 describe('brink gate exit codes (CLI)', () => {
   it('0 when the thresholds hold, 1 naming the one that fails, 2 for bad usage', async () => {
     const pgd = point.get('pgd 0.1')!;
-    const [pass, fail, usage] = await Promise.all<CliResult>([
+    const [pass, fail, usage] = await Promise.all([
       // A threshold equal to the measured accuracy holds (≥); the second one is trivially met.
       cli(['gate', '--run', run, '--min-accuracy', `${pgd.robust / pgd.samples}@0.1`, '--min-accuracy', '0@0.05', '--attack', 'pgd', '--norm', 'linf']),
       cli(['gate', '--run', run, '--min-accuracy', '0@0.05', '--min-accuracy', `${above(pgd)}@0.1`, '--attack', 'pgd']),
@@ -83,6 +83,15 @@ describe('brink gate thresholds', () => {
     const r = await gateHere('--min-accuracy', `${pgd.robust / pgd.samples}@0.1`, '--attack', 'pgd', '--lower-bound');
     expect(r.code).toBe(1);
     expect(oneLine(r.stderr)).toContain(`Wilson 95 % lower bound ${pgd.low}`);
+  });
+
+  it('takes a run budget just above the required one (never below)', async () => {
+    const fgsm = point.get('fgsm 0.05')!;
+    // 0.05 lies 5e-5 above 0.04995: a larger budget can only lower robust accuracy (nested budgets), so it may stand in.
+    expect((await gateHere('--min-accuracy', `${fgsm.robust / fgsm.samples}@0.04995`, '--attack', 'fgsm')).code).toBe(0);
+    const below = await gateHere('--min-accuracy', `${fgsm.robust / fgsm.samples}@0.05005`, '--attack', 'fgsm');
+    expect(below.code).toBe(1);
+    expect(oneLine(below.stderr)).toMatch(/no fgsm point at eps=0\.05005/);
   });
 
   it('fails (1) when the run lacks the budget, search or norm asked for', async () => {

@@ -112,3 +112,14 @@ describe('the command rebuilt for a workbench run', () => {
     expect(command.notes.join(' ')).toMatch(/steps \(apgd-ce 9, pgd 4\)/);
   });
 });
+
+describe('brink report: bad usage', () => {
+  it('names a run folder without a saved run, and a missing --out', async () => {
+    const { reportCommand, REPORT_FLAGS } = await import('../../src/cli/reportCommand.ts');
+    const { parseArgs } = await import('../../src/cli/args.ts');
+    const empty = tmp();
+    await expect(reportCommand(parseArgs([empty, '--out', path.join(empty, 'r.html')], REPORT_FLAGS))).rejects.toThrow(/no run\.brink\.json in this folder/);
+    await expect(reportCommand(parseArgs([dir], REPORT_FLAGS))).rejects.toThrow(/missing --out/);
+    await expect(reportCommand(parseArgs([], REPORT_FLAGS))).rejects.toThrow(/give one run folder/);
+  });
+});

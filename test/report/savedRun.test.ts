@@ -44,6 +44,9 @@ describe('saved run written by the sweep CLI', () => {
   it('stores thumbnails of flips at their flipping budget, matching the fixture images', () => {
     expect(saved.flips.length).toBeGreaterThan(0);
     const rows = csvRows(path.join(dir, 'samples.csv'));
+    // 20 samples, 2 per class: below the limits (24 per search, 3 per class), so every flip in samples.csv has a thumbnail.
+    const flippedPairs = new Set(rows.filter((r) => r[11] === '1').map((r) => `${r[4]} ${r[0]}`));
+    expect(new Set(saved.flips.map((f) => `${f.attack} ${f.file}`))).toEqual(flippedPairs);
     for (const f of saved.flips) {
       // samples.csv: flipped at the thumbnail's budget, and not at any smaller one (smallest flipping budget).
       const mine = rows.filter((r) => r[0] === f.file && r[4] === f.attack).map((r) => ({ eps: Number(r[6]), flipped: r[11] === '1', advPred: Number(r[7]) }));

@@ -72,7 +72,7 @@ function workbenchCommand(saved: SavedRun): ReproduceCommand {
   args.push('--input-range', preprocessing.inputRange, '--mean', preprocessing.mean.join(','), '--std', preprocessing.std.join(','), '--layout', preprocessing.layout);
   args.push('--seed', String(config.seed), '--batch', String(config.batchSize), '--out', 'brink-rerun');
   notes.unshift('Built from the workbench run\'s configuration: model/ holds the model files and samples/ the sample files as loaded (a folder per class, or the CSV manifest with its images); the SHA-256 values in this report identify them.');
-  if (conflicts.length > 0) notes.push(`Not exact: the command line sets one value per option for every search, but this run used different values of ${conflicts.join(', ')}; the flags above take the first search's value.`);
+  if (conflicts.length > 0) notes.push(`Not exact: the command line sets one value per option for every search, and not every option has a flag; this run used ${conflicts.join(', ')}. Where searches differ, the flags above take the first search's value.`);
   notes.push('The browser and Node builds of the WASM backend may differ in the last bits of floating-point results, which can move a sample that sits exactly on a decision boundary.');
   return { command: args.map(shellQuote).join(' '), exact: conflicts.length === 0, notes };
 }
@@ -80,6 +80,12 @@ function workbenchCommand(saved: SavedRun): ReproduceCommand {
 /** Append the search-option flags; returns the options whose values differ between searches. */
 function optionArgs(saved: SavedRun, args: string[]): string[] {
   const conflicts: string[] = [];
+  for (const a of saved.run.config.attacks) {
+    const defaults = getAttack(a.id).meta.defaults as Record<string, unknown>;
+    for (const [key, value] of Object.entries(a.options)) {
+      if (!(key in OPTION_FLAGS) && JSON.stringify(defaults[key]) !== JSON.stringify(value)) conflicts.push(`${key} (${a.id}: no command-line flag)`);
+    }
+  }
   for (const [key, spec] of Object.entries(OPTION_FLAGS)) {
     const users = saved.run.config.attacks.filter((a) => key in a.options);
     if (users.length === 0) continue;

@@ -71,7 +71,9 @@ export function curveChartSvg(series: readonly ChartSeries[], options: ChartOpti
   parts.push(`<rect x="0" y="0" width="${width}" height="${height}" fill="#ffffff"/>`);
   if (options.title !== undefined) parts.push(`<text x="${MARGIN.left}" y="22" font-size="15" font-weight="600" fill="#1a1a1a">${escapeHtml(options.title)}</text>`);
   parts.push(axes(xTicks, sx, sy, { plotWidth, plotHeight }, options));
-  series.forEach((s, i) => parts.push(seriesMarkup(s, colorOf(s, i), sx, sy)));
+  // Many overlapping bands turn muddy: lighter bands when there are more than two series.
+  const bandOpacity = series.length <= 2 ? 0.13 : 0.07;
+  series.forEach((s, i) => parts.push(seriesMarkup(s, colorOf(s, i), sx, sy, bandOpacity)));
   for (const ref of options.references ?? []) {
     parts.push(`<line x1="${num(sx(0))}" x2="${num(sx(xEnd))}" y1="${num(sy(ref.y))}" y2="${num(sy(ref.y))}" stroke="${ref.color ?? '#555555'}" stroke-width="1.2" stroke-dasharray="3 3"><title>${escapeHtml(`${ref.label}: ${ref.y.toFixed(4)}`)}</title></line>`);
   }
@@ -103,14 +105,14 @@ function axes(xTicks: readonly number[], sx: (x: number) => number, sy: (y: numb
   return out.join('');
 }
 
-function seriesMarkup(s: ChartSeries, color: string, sx: (x: number) => number, sy: (y: number) => number): string {
+function seriesMarkup(s: ChartSeries, color: string, sx: (x: number) => number, sy: (y: number) => number, bandOpacity: number): string {
   const points = [...s.points].sort((a, b) => a.x - b.x);
   const out: string[] = [];
   const banded = points.filter((p) => p.low !== undefined && p.high !== undefined);
   if (banded.length > 1) {
     const upper = banded.map((p) => `${num(sx(p.x))},${num(sy(p.high!))}`);
     const lower = [...banded].reverse().map((p) => `${num(sx(p.x))},${num(sy(p.low!))}`);
-    out.push(`<polygon points="${[...upper, ...lower].join(' ')}" fill="${color}" fill-opacity="0.13" stroke="none"/>`);
+    out.push(`<polygon points="${[...upper, ...lower].join(' ')}" fill="${color}" fill-opacity="${bandOpacity}" stroke="none"/>`);
   }
   const line = points.map((p) => `${num(sx(p.x))},${num(sy(p.y))}`).join(' ');
   const dash = s.dash ? ` stroke-dasharray="${s.dash}"` : '';

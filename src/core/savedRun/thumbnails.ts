@@ -87,6 +87,21 @@ export function createFlipCollector(samples: ThumbnailSamples, limits: Thumbnail
 }
 
 /**
+ * Kept flips from a store of adversarial points per (attack, sample) — such as the workbench keeps
+ * for its gallery — each at the sample's smallest flipping budget from the records.
+ */
+export function keptFlipsFrom(records: readonly SampleRecord[], adversarialOf: (attack: AttackId, index: number) => Float32Array | undefined): KeptFlip[] {
+  const out: KeptFlip[] = [];
+  for (const r of records) {
+    for (const [attack, eps] of Object.entries(r.minFlipEps) as [AttackId, number | null][]) {
+      const adversarial = typeof eps === 'number' && eps > 0 ? adversarialOf(attack, r.index) : undefined;
+      if (adversarial !== undefined && typeof eps === 'number') out.push({ attack, eps, index: r.index, adversarial });
+    }
+  }
+  return out;
+}
+
+/**
  * PNG thumbnails (clean and adversarial) of kept flips, with the sample's labels and predictions
  * from the records. Flips whose record or outcome is missing are skipped; the limits apply again,
  * so callers may pass every flip they hold.
