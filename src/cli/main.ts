@@ -8,6 +8,7 @@ import { FLIPS_FLAGS, FLIPS_USAGE, flipsCommand } from './flipsCommand.ts';
 import { REPORT_FLAGS, REPORT_USAGE, reportCommand } from './reportCommand.ts';
 import { COMPARE_FLAGS, COMPARE_USAGE, compareCommand } from './compareCommand.ts';
 import { GATE_FLAGS, GATE_USAGE, gateCommand } from './gateCommand.ts';
+import { DESCRIBE_FLAGS, DESCRIBE_USAGE, describeCommand } from './describeCommand.ts';
 
 interface Command {
   readonly flags: FlagTable;
@@ -22,6 +23,7 @@ const COMMANDS: Readonly<Record<string, Command>> = {
   report: { flags: REPORT_FLAGS, usage: REPORT_USAGE, run: reportCommand },
   compare: { flags: COMPARE_FLAGS, usage: COMPARE_USAGE, run: compareCommand },
   gate: { flags: GATE_FLAGS, usage: GATE_USAGE, run: gateCommand },
+  describe: { flags: DESCRIBE_FLAGS, usage: DESCRIBE_USAGE, run: describeCommand },
 };
 
 const HELP = `brink — adversarial robustness sweeps for image classifiers, on your own machine.
@@ -32,6 +34,7 @@ commands:
   report   one self-contained HTML report of a sweep's run folder (run.brink.json) → report.html
   compare  two or more run folders side by side → comparison.csv, comparison.svg
   gate     exit 1 when a run's robust accuracy is below a threshold (for CI pipelines)
+  describe what Brink detects about a model: input, layout, classes, output kind (ONNX: opset, operators)
 
 Run "npm run -s cli -- <command> --help" for a command's flags.`;
 
