@@ -9,8 +9,9 @@ import { SamplesScreen } from './screens/SamplesScreen.tsx';
 import { PreprocessingScreen } from './screens/PreprocessingScreen.tsx';
 import { PlanScreen } from './screens/PlanScreen.tsx';
 import { RunScreen } from './screens/RunScreen.tsx';
-import { ResultsScreen } from './screens/ResultsScreen.tsx';
+import { ResultsView } from './screens/ResultsView.tsx';
 import { ExportsScreen } from './screens/ExportsScreen.tsx';
+import { ReviewScreen } from './screens/ReviewScreen.tsx';
 
 const SCREEN_VIEWS: Readonly<Record<ScreenId, () => ReactElement>> = {
   model: ModelScreen,
@@ -18,8 +19,9 @@ const SCREEN_VIEWS: Readonly<Record<ScreenId, () => ReactElement>> = {
   preprocessing: PreprocessingScreen,
   plan: PlanScreen,
   run: RunScreen,
-  results: ResultsScreen,
+  results: ResultsView,
   exports: ExportsScreen,
+  review: ReviewScreen,
 };
 
 /** The whole app. */

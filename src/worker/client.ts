@@ -1,8 +1,9 @@
 /**
- * The page's side of the engine worker: one typed async method per request, with the sweep's
- * progress and point events delivered to callbacks and cancellation by AbortSignal.
+ * The page's side of the engine worker: one typed async method per request, with the events of
+ * long requests (sweep, health checks, flip budgets) delivered to callbacks and cancellation by AbortSignal.
  */
 import type { CurvePoint, SweepProgress, SweepResult } from '../core/sweep/types.ts';
+import type { FlipProgress } from '../core/flips/types.ts';
 import type { NamedBytes } from '../core/types.ts';
 import { buffersOf, type ArgsOf, type EngineEvent, type EngineResponse, type MethodName, type ReplyOf } from './protocol.ts';
 
@@ -17,6 +18,18 @@ export interface SweepCallbacks {
   readonly signal?: AbortSignal;
   readonly onProgress?: (progress: SweepProgress) => void;
   readonly onPoint?: (point: CurvePoint, partial: SweepResult) => void;
+}
+
+/** Cancellation and step reports of the health checks. */
+export interface HealthCallbacks {
+  readonly signal?: AbortSignal;
+  readonly onStep?: (what: string) => void;
+}
+
+/** Cancellation and progress of a flip-budget run. */
+export interface FlipCallbacks {
+  readonly signal?: AbortSignal;
+  readonly onProgress?: (progress: FlipProgress) => void;
 }
 
 /** A typed handle on the engine worker. */
@@ -51,14 +64,33 @@ export class EngineClient {
 
   /** Run a sweep; aborting `signal` asks the worker to stop and resolves with the finished points. */
   sweep(args: ArgsOf<'sweep'>, callbacks: SweepCallbacks = {}): Promise<SweepResult> {
+    return this.cancellable('sweep', args, callbacks.signal, (event) => {
+      if (event.kind === 'progress') callbacks.onProgress?.(event.progress);
+      else if (event.kind === 'point') callbacks.onPoint?.(event.point, event.partial);
+    });
+  }
+
+  /** Run the health checks of the last sweep; aborting `signal` stops them (the call then rejects). */
+  health(args: ArgsOf<'health'>, callbacks: HealthCallbacks = {}): Promise<ReplyOf<'health'>> {
+    return this.cancellable('health', args, callbacks.signal, (event) => {
+      if (event.kind === 'health-step') callbacks.onStep?.(event.what);
+    });
+  }
+
+  /** Measure flip budgets; aborting `signal` stops them and resolves with the finished samples. */
+  flipBudgets(args: ArgsOf<'flipBudgets'>, callbacks: FlipCallbacks = {}): Promise<ReplyOf<'flipBudgets'>> {
+    return this.cancellable('flipBudgets', args, callbacks.signal, (event) => {
+      if (event.kind === 'flip-progress') callbacks.onProgress?.(event.progress);
+    });
+  }
+
+  /** A request that a `cancel` carrying its id stops when `signal` aborts. */
+  private cancellable<M extends MethodName>(method: M, args: ArgsOf<M>, signal: AbortSignal | undefined, onEvent: (e: EngineEvent) => void): Promise<ReplyOf<M>> {
     const id = this.nextId; // the id call() below assigns, needed by the cancel request
     const onAbort = (): void => void this.call('cancel', { runId: id });
-    callbacks.signal?.addEventListener('abort', onAbort, { once: true });
-    const done = this.call('sweep', args, [], (event) => {
-      if (event.kind === 'progress') callbacks.onProgress?.(event.progress);
-      else callbacks.onPoint?.(event.point, event.partial);
-    });
-    return done.finally(() => callbacks.signal?.removeEventListener('abort', onAbort));
+    signal?.addEventListener('abort', onAbort, { once: true });
+    const done = this.call(method, args, [], onEvent);
+    return done.finally(() => signal?.removeEventListener('abort', onAbort));
   }
 
   /** Stop the worker; pending calls fail. */

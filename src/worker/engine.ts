@@ -14,7 +14,7 @@ import { runSweep, type SweepHooks } from '../core/sweep/runSweep.ts';
 import type { AdversarialBatch } from '../core/sweep/runSweep.ts';
 import type { SweepConfig, SweepResult } from '../core/sweep/types.ts';
 import type { AttackId } from '../core/attacks/types.ts';
-import type { LoadedModel, LogitsFn, NamedBytes, Preprocessing } from '../core/types.ts';
+import type { LoadedModel, LogitsFn, NamedBytes, Preprocessing, SampleSet } from '../core/types.ts';
 import { decodeImageBrowser } from './decodeImageBrowser.ts';
 import { expandArchives } from './archive.ts';
 import type { CleanReply, EngineInfo, FlipImagesReply, ModelInfo, PreviewImage, PreviewReply, SamplesInfo } from './protocol.ts';
@@ -26,6 +26,8 @@ export interface SweepRecordInputs {
   readonly sampleFiles: readonly NamedBytes[];
   readonly preprocessing: Preprocessing;
   readonly model: LoadedModel;
+  /** The sample set the sweep ran on (the health checks must run on the very same one). */
+  readonly samples: SampleSet;
   readonly classNames: readonly string[];
   readonly backend: BackendInfo;
   /** Adversarial pixels of flipped samples, keyed by flipKey(). */
@@ -150,6 +152,7 @@ export class Engine {
       sampleFiles: this.sampleFiles,
       preprocessing,
       model,
+      samples: set,
       classNames: set.classNames,
       backend: this.backend!,
       flips,
@@ -178,7 +181,8 @@ export class Engine {
     return this.last;
   }
 
-  private ready(): { model: LoadedModel; set: SampleSetBuild['set'] } {
+  /** The loaded model and sample set, when both are there and fit together (else throws, saying what is missing). */
+  ready(): { model: LoadedModel; set: SampleSetBuild['set'] } {
     if (this.model === null) throw new Error('Load a model first.');
     if (this.samples === null) throw new Error('Load samples first.');
     const problem = this.mismatch();

@@ -1,9 +1,11 @@
 /**
  * Entry point of the engine worker: receives typed requests, runs them on the Engine one at a
- * time (except `cancel`, which must get through while a sweep runs) and posts typed responses.
+ * time (except `cancel`, which must get through while a long request runs) and posts typed responses.
  */
 import { Engine } from './engine.ts';
 import { exportFile } from './exports.ts';
+import { flipBudgetsOf, healthOfLastSweep, statisticsOfLastSweep } from './analysis.ts';
+import { savedRunOfLastSweep } from './review.ts';
 import { buffersOf, type ArgsOf, type EngineRequest, type EngineResponse, type MethodName, type ReplyOf } from './protocol.ts';
 
 /** The parts of the dedicated worker scope this file uses (the project's lib is DOM, not WebWorker). */
@@ -18,6 +20,17 @@ const runs = new Map<number, AbortController>();
 /** Requests run in order; a sweep holds the queue, `cancel` skips it. */
 let queue: Promise<void> = Promise.resolve();
 
+/** Run a cancellable request: its AbortSignal is registered under the request id until it settles. */
+async function cancellable<T>(id: number, work: (signal: AbortSignal) => Promise<T>): Promise<T> {
+  const controller = new AbortController();
+  runs.set(id, controller);
+  try {
+    return await work(controller.signal);
+  } finally {
+    runs.delete(id);
+  }
+}
+
 type Handler<M extends MethodName> = (args: ArgsOf<M>, id: number) => Promise<ReplyOf<M>> | ReplyOf<M>;
 
 const handlers: { [M in MethodName]: Handler<M> } = {
@@ -26,26 +39,25 @@ const handlers: { [M in MethodName]: Handler<M> } = {
   loadSamples: (a) => engine.loadSamples(a.files, a.classNamesFile),
   preview: (a) => engine.preview(a.count, a.preprocessing),
   clean: (a) => engine.clean(a.preprocessing),
-  sweep: async (a, id) => {
-    const controller = new AbortController();
-    runs.set(id, controller);
-    try {
-      return await engine.sweep(a.config, a.preprocessing, {
-        signal: controller.signal,
+  sweep: (a, id) =>
+    cancellable(id, (signal) =>
+      engine.sweep(a.config, a.preprocessing, {
+        signal,
         onProgress: (progress) => post({ id, kind: 'progress', progress }),
         onPoint: (point, partial) => post({ id, kind: 'point', point, partial }),
-      });
-    } finally {
-      runs.delete(id);
-    }
-  },
+      }),
+    ),
   cancel: (a) => {
     const run = runs.get(a.runId);
-    run?.abort(new DOMException('The sweep was cancelled.', 'AbortError'));
+    run?.abort(new DOMException('Cancelled on request.', 'AbortError'));
     return run !== undefined;
   },
   flipImages: (a) => engine.flipImages(a.items),
   exportFile: (a) => exportFile(a.kind, engine.lastSweep()),
+  statistics: () => statisticsOfLastSweep(engine),
+  health: (a, id) => cancellable(id, (signal) => healthOfLastSweep(engine, a, { signal, onStep: (what) => post({ id, kind: 'health-step', what }) })),
+  flipBudgets: (a, id) => cancellable(id, (signal) => flipBudgetsOf(engine, a, { signal, onProgress: (progress) => post({ id, kind: 'flip-progress', progress }) })),
+  savedRun: (a) => savedRunOfLastSweep(engine.lastSweep(), a.health),
 };
 
 function post(message: EngineResponse, transfer: Transferable[] = []): void {

@@ -1,13 +1,19 @@
 /**
  * The typed messages between the page and the engine worker. Every request carries an id; the
- * worker answers it with exactly one `ok` or `error` message, and a sweep also sends `progress`
- * and `point` events with the same id before its answer. Plain data only (structured clone);
+ * worker answers it with exactly one `ok` or `error` message; long requests (a sweep, the health
+ * checks, flip budgets) also send events with the same id before their answer. Plain data only (structured clone);
  * pixel and file buffers travel in the transfer list, never copied.
  */
 import type { BackendInfo } from '../core/backend/initBackend.ts';
 import type { CurvePoint, SweepConfig, SweepProgress, SweepResult } from '../core/sweep/types.ts';
 import type { AttackId } from '../core/attacks/types.ts';
-import type { ModelDescription, NamedBytes, Preprocessing } from '../core/types.ts';
+import type { ModelDescription, NamedBytes, Norm, Preprocessing } from '../core/types.ts';
+import type { HealthReport } from '../core/health/runHealthChecks.ts';
+import type { FlipBudgetResult, FlipCurvePoint, FlipProgress, FlipSearchId } from '../core/flips/types.ts';
+import type { FlipHistogram } from '../core/flips/curve.ts';
+import type { SweepStatistics } from '../core/stats/perClass.ts';
+import type { HealthInput } from '../core/savedRun/saveRun.ts';
+import type { SavedRun } from '../core/savedRun/types.ts';
 
 /** What the worker found out when the backend started. */
 export interface EngineInfo {
@@ -101,6 +107,42 @@ export interface ExportFile {
   readonly bytes: Uint8Array;
 }
 
+/** Options of the two searches the health checks add when the sweep did not run them. */
+export interface HealthRequest {
+  readonly squareOptions: Readonly<Record<string, unknown>>;
+  readonly noiseOptions: Readonly<Record<string, unknown>>;
+}
+
+/** A flip-budget run as the workbench asks for it; the worker fills in defaults and validates. */
+export interface FlipRequest {
+  readonly search: FlipSearchId;
+  readonly norm: Norm;
+  /** Largest budget tried; null: the budget within which any image can become flat grey. */
+  readonly maxEps: number | null;
+  readonly tol: number;
+  /** Search options (untargeted); each search completes them with its own defaults. */
+  readonly options: Readonly<Record<string, unknown>>;
+  /** Use at most this many samples, spread over the classes; null: all of them. */
+  readonly limit: number | null;
+  readonly seed: number;
+  readonly batchSize: number;
+  /** Bars of the histogram. */
+  readonly binCount: number;
+  readonly preprocessing: Preprocessing;
+}
+
+/** Flip budgets with the views drawn from them; record indices refer to the whole sample set. */
+export interface FlipsReply {
+  readonly result: FlipBudgetResult;
+  /** The largest budget tried (the default resolved). */
+  readonly maxEps: number;
+  /** Samples in the whole set (result.samples is the number measured). */
+  readonly totalSamples: number;
+  readonly histogram: FlipHistogram;
+  /** Robust accuracy implied by the flip budgets, from 0 to the histogram's upper edge. */
+  readonly curve: readonly FlipCurvePoint[];
+}
+
 /** Every call the worker answers: argument and reply types by method name. */
 export interface EngineMethods {
   init: { args: { wasmPath: string; threads: number | null }; reply: EngineInfo };
@@ -110,9 +152,18 @@ export interface EngineMethods {
   preview: { args: { count: number; preprocessing: Preprocessing }; reply: PreviewReply };
   clean: { args: { preprocessing: Preprocessing }; reply: CleanReply };
   sweep: { args: { config: SweepConfig; preprocessing: Preprocessing }; reply: SweepResult };
+  /** Stop the cancellable request with this id (a sweep, health checks or flip budgets). */
   cancel: { args: { runId: number }; reply: boolean };
   flipImages: { args: { items: readonly { index: number; attack: AttackId }[] }; reply: FlipImagesReply };
   exportFile: { args: { kind: ExportKind }; reply: ExportFile };
+  /** Per-class robust accuracy, flip matrices and median flip budgets of the last sweep. */
+  statistics: { args: Record<string, never>; reply: SweepStatistics };
+  /** The health checks of the last sweep (extra searches run in the worker; cancellable). */
+  health: { args: HealthRequest; reply: HealthReport };
+  /** Minimal flip budgets (cancellable: resolves with the finished samples). */
+  flipBudgets: { args: FlipRequest; reply: FlipsReply };
+  /** The saved run of the last sweep (thumbnails from the kept adversarial points), with the page's health checks. */
+  savedRun: { args: { health: readonly HealthInput[] | null }; reply: SavedRun };
 }
 
 export type MethodName = keyof EngineMethods;
@@ -122,10 +173,12 @@ export type ReplyOf<M extends MethodName> = EngineMethods[M]['reply'];
 /** A call from the page. */
 export type EngineRequest = { [M in MethodName]: { readonly id: number; readonly method: M; readonly args: ArgsOf<M> } }[MethodName];
 
-/** Events a sweep sends before its answer. */
+/** Events a long request sends before its answer. */
 export type EngineEvent =
   | { readonly kind: 'progress'; readonly progress: SweepProgress }
-  | { readonly kind: 'point'; readonly point: CurvePoint; readonly partial: SweepResult };
+  | { readonly kind: 'point'; readonly point: CurvePoint; readonly partial: SweepResult }
+  | { readonly kind: 'health-step'; readonly what: string }
+  | { readonly kind: 'flip-progress'; readonly progress: FlipProgress };
 
 /** A message from the worker. */
 export type EngineResponse =

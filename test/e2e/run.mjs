@@ -11,6 +11,8 @@ import { unzipSync, zipSync } from 'fflate';
 import { serveStatic } from './server.mjs';
 import { CHROMIUM, launch } from './browser.mjs';
 import { cliFilesFor } from './cli.mjs';
+import { reviewChecks } from './review.mjs';
+import { classViews, flipBudgets, flipBudgetsStopped, healthAfterDemo, onnxModel } from './analysis.mjs';
 import { demoSubsetZip, download, expect, openFlipDetail, openScreen, runDemo, snap, textOf, TIMEOUT, waitForDemoWorkspace, waitForLabel } from './steps.mjs';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
@@ -82,6 +84,14 @@ async function main() {
 
     await check('clicking a flipped image shows its confidence against ε', () => openFlipDetail(page, ARTIFACTS));
 
+    await check('the health checks of the demo sweep show each check with its status in words and its numbers', () => healthAfterDemo(page, ARTIFACTS));
+
+    await check('the per-class table and the flip matrix agree with the curve and with Wilson intervals', () => classViews(page, ARTIFACTS));
+
+    await check('flip budgets of a few images give a histogram, a median and the curve they imply', () => flipBudgets(page, ARTIFACTS));
+
+    await check('a flip-budget measurement can be stopped midway and keeps the images that finished', () => flipBudgetsStopped(page));
+
     await check('exports: curve PNG, curve CSV, samples CSV, run JSON, adversarial .zip', async () => {
       await openScreen(page, 'exports');
       await snap(page, ARTIFACTS, '7-exports');
@@ -109,6 +119,8 @@ async function main() {
       expect(cli.samplesCsv.equals(browserSamples), `samples.csv differs: ${firstDifference(browserSamples, cli.samplesCsv)}`);
       return `${cli.curveCsv.toString('utf8').trim().split('\n').length - 1} curve rows; CLI took ${(cli.ms / 1000).toFixed(1)} s`;
     });
+
+    await reviewChecks({ check, page, serverUrl: server.url, artifacts: ARTIFACTS, curveCsv: browserCurve, measured });
 
     await check('a model loads through the file input, and a wrong file is refused beside the drop zone', async () => {
       await openScreen(page, 'model');
@@ -173,6 +185,8 @@ async function main() {
       await waitForLabel(page, 'model-label', 'adversarially trained');
       return await textOf(page, '[data-testid=model-label]');
     });
+
+    await check('an ONNX model loads through the file input, shows its opset, operators and input, and sweeps a few images', () => onnxModel(page, ARTIFACTS, ROOT));
 
     await check('without cross-origin isolation the app runs single-threaded and says so', async () => {
       const plain = await serveStatic(DIST, { isolated: false });

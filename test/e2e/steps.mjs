@@ -108,3 +108,24 @@ export async function waitForLabel(page, testId, text) {
 export async function textOf(page, selector) {
   return (await page.locator(selector).count()) > 0 ? ((await page.textContent(selector)) ?? '') : '';
 }
+
+/** The eight health checks issue 5 lists, by the ids the panel marks them with. */
+export const HEALTH_CHECK_IDS = ['monotone', 'large-budget', 'iterative-vs-single-step', 'gradient-free-vs-gradient', 'convergence', 'gradients', 'noise', 'saturation'];
+
+/** The rows of a table as arrays of cell texts. */
+export async function tableRows(page, selector) {
+  return page.$$eval(`${selector} tbody tr`, (rows) => rows.map((row) => [...row.children].map((cell) => (cell.textContent ?? '').trim())));
+}
+
+/** Plotly keeps a drawn figure's data on its div; read the x and y of the trace at `which` (an index or a trace name). */
+export async function plotTrace(page, testId, which) {
+  return page.$eval(`[data-testid=${testId}]`, (div, w) => {
+    const trace = typeof w === 'number' ? div.data?.[w] : div.data?.find((t) => t.name === w);
+    return trace ? { x: Array.from(trace.x ?? []), y: Array.from(trace.y ?? []) } : null;
+  }, which);
+}
+
+/** "93.1 %" → 0.931. */
+export function parsePercent(text) {
+  return Number(text.replace('%', '').trim()) / 100;
+}

@@ -3,7 +3,7 @@ import type { ReactElement } from 'react';
 import { formatBackend } from '../../core/backend/initBackend.ts';
 import { useWorkspace } from '../store/workspace.ts';
 import { loadDemoModel, runDemo } from '../store/actions.ts';
-import type { DemoModelId } from '../store/state.ts';
+import { workerBusy, type DemoModelId } from '../store/state.ts';
 
 /** Engine status in words: flavour, threads, and why threads are off when they are. */
 export function EngineBadge(): ReactElement {
@@ -23,7 +23,7 @@ export function EngineBadge(): ReactElement {
 /** The header. */
 export function Header(): ReactElement {
   const demo = useWorkspace((s) => s.model.value?.demo ?? null);
-  const running = useWorkspace((s) => s.run.status === 'running');
+  const running = useWorkspace(workerBusy);
   const ready = useWorkspace((s) => s.engine.value !== null);
   return (
     <header className="header">

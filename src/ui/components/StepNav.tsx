@@ -13,6 +13,7 @@ const TITLES: Readonly<Record<ScreenId, string>> = {
   run: 'Run',
   results: 'Results',
   exports: 'Exports',
+  review: 'Review & compare',
 };
 
 /** One line of status under a step's title. */
@@ -33,6 +34,8 @@ export function stepStatus(screen: ScreenId, s: WorkspaceState): string {
       return s.run.result ? `${s.run.result.curve.length} points${s.run.status === 'running' ? ' so far' : ''}` : 'after a run';
     case 'exports':
       return s.run.status === 'running' ? 'after the run' : s.run.result ? 'ready' : 'after a run';
+    case 'review':
+      return 'save, load, report, compare';
   }
 }
 

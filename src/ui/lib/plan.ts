@@ -10,6 +10,7 @@ import { estimateSweepCost } from '../../core/sweep/runSweep.ts';
 import type { SweepConfig } from '../../core/sweep/types.ts';
 import type { Norm } from '../../core/types.ts';
 import { parseBudgets } from './budgets.ts';
+import { DEFAULT_HEALTH_SETTINGS, type HealthSettings } from './health.ts';
 
 /** Everything the plan screen edits (persisted). */
 export interface PlanSettings {
@@ -24,6 +25,8 @@ export interface PlanSettings {
   readonly options: Readonly<Record<string, unknown>>;
   readonly seed: number;
   readonly batchSize: number;
+  /** The health checks: whether they follow the sweep, and the settings of the searches they add. */
+  readonly health: HealthSettings;
 }
 
 /** The demo plan: FGSM and PGD with their defaults, L∞, five budgets up to 8/255. */
@@ -34,6 +37,7 @@ export const DEMO_PLAN: PlanSettings = {
   options: {},
   seed: 0,
   batchSize: 32,
+  health: DEFAULT_HEALTH_SETTINGS,
 };
 
 /** One option of the chosen searches: who declares it and their defaults. */

@@ -7,16 +7,15 @@ import { useWorkspace } from '../store/workspace.ts';
 import { loadDemoModel, loadModel } from '../store/actions.ts';
 import { count } from '../lib/format.ts';
 import { LAYOUT_LABELS } from '../lib/presets.ts';
+import { shapeText } from '../lib/modelFacts.ts';
+import { OnnxFacts } from '../components/OnnxFacts.tsx';
+import { workerBusy } from '../store/state.ts';
 
 const FORMAT_LABELS: Readonly<Record<ModelDescription['format'], string>> = {
   layers: 'TensorFlow.js layers model',
   graph: 'TensorFlow.js graph model',
   onnx: 'ONNX model',
 };
-
-function shapeText(shape: readonly (number | null)[]): string {
-  return `[${shape.map((d) => (d === null ? 'any' : String(d))).join(', ')}]`;
-}
 
 /** The facts table of a loaded model. */
 function Description({ d }: { d: ModelDescription }): ReactElement {
@@ -31,7 +30,6 @@ function Description({ d }: { d: ModelDescription }): ReactElement {
     ['parameters', count(d.parameterCount)],
     ['engine', backend === null ? '–' : `${formatBackend(backend.backend)}${backend.isolated ? '' : ' (threads need cross-origin isolation)'}${backend.backend.notice ? ` — ${backend.backend.notice}` : ''}`],
   ];
-  if (d.onnx) rows.push(['ONNX', `opset ${d.onnx.opset}, input ${d.onnx.inputName}, output ${d.onnx.outputName}, made by ${d.onnx.producer || 'unknown'}`]);
   return (
     <table className="facts" data-testid="model-description">
       <tbody>
@@ -66,7 +64,7 @@ function Card({ card }: { card: Readonly<Record<string, unknown>> }): ReactEleme
 /** The model screen. */
 export function ModelScreen(): ReactElement {
   const model = useWorkspace((s) => s.model);
-  const running = useWorkspace((s) => s.run.status === 'running');
+  const running = useWorkspace(workerBusy);
   const ready = useWorkspace((s) => s.engine.value !== null);
   const value = model.value;
   return (
@@ -101,6 +99,7 @@ export function ModelScreen(): ReactElement {
         <section className="panel">
           <h3 data-testid="model-label">{value.label}</h3>
           <Description d={value.description} />
+          <OnnxFacts d={value.description} />
           {value.description.notes.length > 0 && (
             <ul className="notes">
               {value.description.notes.map((n) => (

@@ -7,6 +7,7 @@ import { useWorkspace } from '../store/workspace.ts';
 import { attackChoices, planCost, toSweepConfig } from '../lib/plan.ts';
 import { SearchOptions } from '../components/SearchOptions.tsx';
 import { count, duration } from '../lib/format.ts';
+import { HealthSettingsFields } from '../components/HealthPanel.tsx';
 
 function NumberField(props: { label: string; value: number; min: number; step?: number; disabled: boolean; onChange: (v: number) => void; note?: string }): ReactElement {
   return (
@@ -42,6 +43,28 @@ function Estimate(): ReactElement {
       At most <strong>{count(cost)}</strong> model evaluations (a forward and backward pass for one image; a forward pass for the searches without gradients), counting every
       clean-correct image at every budget above 0; images that flip drop out, so the real number is smaller.{lastRate > 0 ? ` At the last run's rate that is up to ${duration(cost / lastRate)}.` : ''}
     </p>
+  );
+}
+
+/** Whether the health checks follow the sweep by themselves, and the settings of the searches they add. */
+function HealthOption(): ReactElement {
+  const health = useWorkspace((s) => s.plan.health);
+  const update = useWorkspace((s) => s.updatePlan);
+  const running = useWorkspace((s) => s.run.status === 'running');
+  return (
+    <section className="panel form">
+      <label className="choice">
+        <input type="checkbox" checked={health.after} disabled={running} onChange={(e) => update({ health: { ...health, after: e.target.checked } })} data-testid="plan-health" />
+        <span>
+          <strong>Check the evaluation after the sweep</strong>{' '}
+          <span className="muted">
+            — eight tests for a search too weak or gradients that mislead it, with extra searches on the same images (these can take longer than the sweep itself). The
+            results screen can also run them later.
+          </span>
+        </span>
+      </label>
+      <HealthSettingsFields disabled={running} />
+    </section>
   );
 }
 
@@ -85,6 +108,7 @@ export function PlanScreen(): ReactElement {
           <NumberField label="Images per batch" value={plan.batchSize} min={1} disabled={running} onChange={(batchSize) => update({ batchSize: Math.round(batchSize) })} />
         </div>
       </section>
+      <HealthOption />
       <Estimate />
       <div className="row">
         <button type="button" className="primary" onClick={() => goTo('run')}>

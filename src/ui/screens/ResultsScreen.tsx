@@ -1,10 +1,16 @@
-/** Step 6: the curve, its table, the flipped images, and the cautions beside them. */
+/**
+ * Step 6: the curve with its table, the health checks and the cautions beside it, the per-class
+ * views, flip budgets and the flipped images.
+ */
 import type { ReactElement } from 'react';
 import { useWorkspace } from '../store/workspace.ts';
 import { CurveChart } from '../components/CurveChart.tsx';
 import { ResultsTable } from '../components/ResultsTable.tsx';
 import { FlipGallery } from '../components/FlipGallery.tsx';
 import { Cautions } from '../components/Cautions.tsx';
+import { HealthPanel } from '../components/HealthPanel.tsx';
+import { ClassBreakdown } from '../components/ClassBreakdown.tsx';
+import { FlipBudgetPanel } from '../components/FlipBudgetPanel.tsx';
 import { percent } from '../lib/format.ts';
 
 /** The results screen. */
@@ -16,8 +22,9 @@ export function ResultsScreen(): ReactElement {
     return (
       <div className="stack">
         <h2>Results</h2>
-        <p className="muted">Results appear here after a sweep. The demo button at the top runs one.</p>
+        <p className="muted">Results appear here after a sweep. The demo button at the top runs one. Flip budgets below need only a model and samples.</p>
         <Cautions />
+        <FlipBudgetPanel />
       </div>
     );
   }
@@ -33,8 +40,13 @@ export function ResultsScreen(): ReactElement {
           <p className="muted small">Shaded: Wilson 95 % interval of each robust accuracy. Dashed: clean accuracy.</p>
           <ResultsTable points={result.curve} />
         </section>
-        <Cautions />
+        <div className="aside-stack">
+          <Cautions />
+          <HealthPanel />
+        </div>
       </div>
+      <ClassBreakdown norm={result.config.norm} />
+      <FlipBudgetPanel />
       <FlipGallery result={result} />
     </div>
   );

@@ -1,6 +1,7 @@
 /** Step 5: start, watch, cancel. Finished curve points appear while the sweep runs. */
 import type { ReactElement } from 'react';
 import { useWorkspace } from '../store/workspace.ts';
+import { workerBusy } from '../store/state.ts';
 import { cancelRun, startRun } from '../store/actions.ts';
 import { toSweepConfig } from '../lib/plan.ts';
 import { describeEps } from '../lib/budgets.ts';
@@ -28,6 +29,7 @@ export function RunScreen(): ReactElement {
   const goTo = useWorkspace((s) => s.goTo);
   const build = toSweepConfig(plan, classes);
   const running = run.status === 'running';
+  const busy = useWorkspace(workerBusy);
   return (
     <div className="stack">
       <h2>Run</h2>
@@ -41,7 +43,7 @@ export function RunScreen(): ReactElement {
           <p className="problem">{build.error}</p>
         )}
         <div className="row">
-          <button type="button" className="primary" data-testid="run-button" disabled={!canRun || running || !build.ok} onClick={() => void startRun(false)}>
+          <button type="button" className="primary" data-testid="run-button" disabled={!canRun || busy || !build.ok} onClick={() => void startRun(false)}>
             Start the sweep
           </button>
           <button type="button" data-testid="cancel-button" disabled={!running} onClick={cancelRun}>

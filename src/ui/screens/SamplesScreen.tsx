@@ -4,6 +4,7 @@ import { DropZone } from '../components/DropZone.tsx';
 import { SampleGrid } from '../components/SampleGrid.tsx';
 import { CleanAccuracy } from '../components/CleanAccuracy.tsx';
 import { useWorkspace } from '../store/workspace.ts';
+import { workerBusy } from '../store/state.ts';
 import { loadDemoSamples, loadSamples, refreshPreview } from '../store/actions.ts';
 import { filesFromList } from '../lib/files.ts';
 
@@ -16,7 +17,7 @@ export function SamplesScreen(): ReactElement {
   const model = useWorkspace((s) => s.model.value);
   const preview = useWorkspace((s) => s.preview.value);
   const clean = useWorkspace((s) => s.clean.value);
-  const running = useWorkspace((s) => s.run.status === 'running');
+  const running = useWorkspace(workerBusy);
   const ready = useWorkspace((s) => s.engine.value !== null);
   const value = samples.value;
   useEffect(() => {

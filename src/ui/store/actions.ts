@@ -4,14 +4,15 @@
  */
 import type { AttackId } from '../../core/attacks/types.ts';
 import type { NamedBytes } from '../../core/types.ts';
-import { startEngineWorker, type EngineClient } from '../../worker/client.ts';
+import { startEngineWorker } from '../../worker/client.ts';
 import type { ModelInfo, SamplesInfo } from '../../worker/protocol.ts';
 import { DEMO_PLAN, toSweepConfig } from '../lib/plan.ts';
 import { appUrl, fetchDemoModel, fetchDemoSamples } from '../lib/demo.ts';
 import { useWorkspace } from './workspace.ts';
-import { preprocessingForModel, runEnded, runFailed, runPointAdded, runProgressed, runStarted, type DemoModelId } from './state.ts';
+import { client, messageOf, setEngine } from './engineHandle.ts';
+import { afterSweep } from './analysisActions.ts';
+import { preprocessingForModel, workerBusy, runEnded, runFailed, runPointAdded, runProgressed, runStarted, type DemoModelId } from './state.ts';
 
-let engine: EngineClient | null = null;
 let controller: AbortController | null = null;
 /** Gallery images already asked of the worker, for one run. */
 let requested: { runId: number; keys: Set<string> } = { runId: 0, keys: new Set() };
@@ -19,18 +20,10 @@ let requested: { runId: number; keys: Set<string> } = { runId: 0, keys: new Set(
 const set = useWorkspace.setState;
 const get = useWorkspace.getState;
 
-function messageOf(err: unknown): string {
-  return err instanceof Error ? err.message : String(err);
-}
-
-function client(): EngineClient {
-  if (engine === null) throw new Error('The engine has not started.');
-  return engine;
-}
-
 /** Start the worker and its backend (threads only with cross-origin isolation). */
 export async function startEngine(): Promise<void> {
-  engine = startEngineWorker();
+  const engine = startEngineWorker();
+  setEngine(engine);
   const threads = window.crossOriginIsolated ? Math.max(1, Math.min(navigator.hardwareConcurrency || 1, 4)) : null;
   try {
     const info = await engine.call('init', { wasmPath: appUrl('wasm/'), threads });
@@ -142,7 +135,7 @@ export async function loadDemoWorkspace(model: DemoModelId = 'standard'): Promis
 /** Start a sweep with the current plan. */
 export async function startRun(fromDemo = false): Promise<void> {
   const s = get();
-  if (s.run.status === 'running') return;
+  if (workerBusy(s)) return;
   const classCount = s.model.value?.description.numClasses ?? null;
   const build = toSweepConfig(s.plan, classCount);
   if (!build.ok) {
@@ -163,6 +156,7 @@ export async function startRun(fromDemo = false): Promise<void> {
     );
     set((st) => ({ run: runEnded(st.run, run.id, result, Date.now()) }));
     await loadGallery(run.id);
+    await afterSweep(run.id, result.complete);
     if (fromDemo && result.complete) set({ screen: 'results' });
   } catch (err) {
     set((st) => ({ run: runFailed(st.run, run.id, messageOf(err), Date.now()) }));
@@ -179,7 +173,8 @@ export function cancelRun(): void {
 /** The demo button: demo workspace, demo plan, run. */
 export async function runDemo(): Promise<void> {
   await loadDemoWorkspace(get().model.value?.demo ?? 'standard');
-  set({ plan: DEMO_PLAN, screen: 'run' });
+  // The demo plan, keeping the user's choice about the health checks.
+  set((s) => ({ plan: { ...DEMO_PLAN, health: s.plan.health }, screen: 'run' }));
   await startRun(true);
 }
 

@@ -7,8 +7,10 @@ import type { Preprocessing } from '../../core/types.ts';
 import { DEFAULT_PREPROCESSING } from '../../core/types.ts';
 import type { CleanReply, EngineInfo, FlipImage, ModelInfo, PreviewReply, SamplesInfo } from '../../worker/protocol.ts';
 import { DEMO_PLAN, type PlanSettings } from '../lib/plan.ts';
+import { DEFAULT_FLIP_SETTINGS, type FlipSettings } from '../lib/flipPlan.ts';
+import { EMPTY_STATS, IDLE_FLIPS, IDLE_HEALTH, type FlipsState, type HealthState, type StatsState } from './analysis.ts';
 
-export const SCREENS = ['model', 'samples', 'preprocessing', 'plan', 'run', 'results', 'exports'] as const;
+export const SCREENS = ['model', 'samples', 'preprocessing', 'plan', 'run', 'results', 'exports', 'review'] as const;
 export type ScreenId = (typeof SCREENS)[number];
 
 export type DemoModelId = 'standard' | 'hardened';
@@ -73,8 +75,13 @@ export interface WorkspaceState {
   readonly preview: Slot<PreviewReply>;
   readonly run: RunState;
   readonly gallery: GalleryState;
-  /** Persisted: the plan and the preprocessing chosen per model. */
+  /** Health checks, per-class statistics (of the last sweep) and flip budgets. */
+  readonly health: HealthState;
+  readonly stats: StatsState;
+  readonly flips: FlipsState;
+  /** Persisted: the plan, the flip-budget form and the preprocessing chosen per model. */
   readonly plan: PlanSettings;
+  readonly flipSettings: FlipSettings;
   readonly preprocessingByModel: Readonly<Record<string, Preprocessing>>;
 }
 
@@ -101,7 +108,11 @@ export function initialState(): WorkspaceState {
     preview: emptySlot(),
     run: IDLE_RUN,
     gallery: { runId: 0, size: null, images: {} },
+    health: IDLE_HEALTH,
+    stats: EMPTY_STATS,
+    flips: IDLE_FLIPS,
     plan: DEMO_PLAN,
+    flipSettings: DEFAULT_FLIP_SETTINGS,
     preprocessingByModel: {},
   };
 }
@@ -133,6 +144,11 @@ export function runEnded(run: RunState, id: number, result: SweepResult, at: num
 export function runFailed(run: RunState, id: number, message: string, at: number): RunState {
   if (run.id !== id) return run;
   return { ...run, status: 'failed', error: message, elapsedMs: at - (run.startedAt ?? at) };
+}
+
+/** True while the worker is busy with a sweep, health checks or flip budgets (one thing at a time). */
+export function workerBusy(s: Pick<WorkspaceState, 'run' | 'health' | 'flips'>): boolean {
+  return s.run.status === 'running' || s.health.status === 'running' || s.flips.status === 'running';
 }
 
 /** The points to draw: the run's result, else nothing. */

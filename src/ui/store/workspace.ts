@@ -1,12 +1,14 @@
 /**
- * The workspace store (zustand). The plan and the preprocessing chosen per model persist in
- * localStorage; loaded data, results and images do not (they live in the worker and in memory).
+ * The workspace store (zustand). The plan, the flip-budget settings and the preprocessing chosen
+ * per model persist in localStorage; loaded data, results and images do not (they live in the worker and in memory).
  */
 import { create } from 'zustand';
 import { createJSONStorage, persist } from 'zustand/middleware';
 import type { Preprocessing } from '../../core/types.ts';
 import type { PlanSettings } from '../lib/plan.ts';
 import { DEMO_PLAN } from '../lib/plan.ts';
+import { healthSettingsFrom } from '../lib/health.ts';
+import { flipSettingsFrom, type FlipSettings } from '../lib/flipPlan.ts';
 import { initialState, type ScreenId, type WorkspaceState } from './state.ts';
 
 /** The store's plain setters; effects (worker calls) live in actions.ts. */
@@ -14,6 +16,7 @@ export interface WorkspaceSetters {
   goTo(screen: ScreenId): void;
   updatePlan(change: Partial<PlanSettings>): void;
   setPreprocessing(pre: Preprocessing): void;
+  updateFlipSettings(change: Partial<FlipSettings>): void;
 }
 
 export type Workspace = WorkspaceState & WorkspaceSetters;
@@ -21,7 +24,7 @@ export type Workspace = WorkspaceState & WorkspaceSetters;
 /** Key of the persisted settings in localStorage. */
 export const STORAGE_KEY = 'brink.workspace';
 
-type Persisted = Pick<WorkspaceState, 'plan' | 'preprocessingByModel'>;
+type Persisted = Pick<WorkspaceState, 'plan' | 'preprocessingByModel' | 'flipSettings'>;
 
 function isRecord(value: unknown): value is Record<string, unknown> {
   return typeof value === 'object' && value !== null && !Array.isArray(value);
@@ -33,8 +36,9 @@ export function mergePersisted(persisted: unknown, current: Workspace): Workspac
   const p = persisted as Partial<Persisted>;
   return {
     ...current,
-    plan: { ...DEMO_PLAN, ...(p.plan ?? {}), options: isRecord(p.plan?.options) ? p.plan.options : {} },
+    plan: { ...DEMO_PLAN, ...(p.plan ?? {}), options: isRecord(p.plan?.options) ? p.plan.options : {}, health: healthSettingsFrom(p.plan?.health) },
     preprocessingByModel: { ...(p.preprocessingByModel ?? {}) },
+    flipSettings: flipSettingsFrom(p.flipSettings),
   };
 }
 
@@ -44,6 +48,7 @@ export const useWorkspace = create<Workspace>()(
       ...initialState(),
       goTo: (screen) => set({ screen }),
       updatePlan: (change) => set((s) => ({ plan: { ...s.plan, ...change } })),
+      updateFlipSettings: (change) => set((s) => ({ flipSettings: { ...s.flipSettings, ...change } })),
       setPreprocessing: (pre) =>
         set((s) => {
           const key = s.model.value?.key;
@@ -57,7 +62,7 @@ export const useWorkspace = create<Workspace>()(
       name: STORAGE_KEY,
       version: 2,
       storage: createJSONStorage(() => localStorage),
-      partialize: (s): Persisted => ({ plan: s.plan, preprocessingByModel: s.preprocessingByModel }),
+      partialize: (s): Persisted => ({ plan: s.plan, preprocessingByModel: s.preprocessingByModel, flipSettings: s.flipSettings }),
       merge: mergePersisted,
     },
   ),
