@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import * as tf from '@tensorflow/tfjs';
 import { useBackend } from './helpers/backend.ts';
+import { WILSON_REFERENCE } from './helpers/wilsonReference.ts';
 import { wilsonInterval } from '../src/core/stats/wilson.ts';
 import { createRng } from '../src/core/random/rng.ts';
 
@@ -11,13 +12,12 @@ describe('project smoke', () => {
     expect(info.simd).toBe(true);
   });
   it('Wilson intervals match a reference statistics library', () => {
-    // Reference: statsmodels proportion_confint(method="wilson") values quoted in issue 5 (Wilson 1927).
-    const a = wilsonInterval(7, 50);
-    expect(a.low).toBeCloseTo(0.0695, 4);
-    expect(a.high).toBeCloseTo(0.2619, 4);
-    const b = wilsonInterval(900, 1000);
-    expect(b.low).toBeCloseTo(0.8798, 4);
-    expect(b.high).toBeCloseTo(0.9171, 4);
+    // Reference: statsmodels proportion_confint(method="wilson") values quoted in issue 5 (Wilson 1927), to 4 decimals.
+    for (const reference of WILSON_REFERENCE) {
+      const { low, high } = wilsonInterval(reference.successes, reference.trials);
+      expect(low).toBeCloseTo(reference.low, 4);
+      expect(high).toBeCloseTo(reference.high, 4);
+    }
   });
   it('seeded generator repeats exactly and streams differ', () => {
     const a = createRng(42).uniformArray(5, 0, 1);

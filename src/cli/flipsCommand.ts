@@ -6,9 +6,9 @@ import { mkdir, writeFile } from 'node:fs/promises';
 import path from 'node:path';
 import type { FlagTable, ParsedArgs } from './args.ts';
 import { UsageError, formatUsage, parseChoice, parseNumber, requireValue } from './args.ts';
-import { PREPROCESSING_FLAGS, SEARCH_FLAGS, attackOptionsFor, preprocessingFromFlags, searchOptionsFromFlags } from './sweepFlags.ts';
+import { PREPROCESSING_FLAGS, RUN_FLAGS, SEARCH_FLAGS, attackOptionsFor, runSettingsFromFlags, searchOptionsFromFlags } from './sweepFlags.ts';
 import { EXTRA_SEARCH_FLAGS, extraSearchOptionsFromFlags } from './searchOptionFlags.ts';
-import { loadInputs } from './loadInputs.ts';
+import { INPUT_FLAGS, loadInputsFromFlags } from './loadInputs.ts';
 import { startNodeBackend } from './nodePlatform.ts';
 import { getAttack } from '../core/attacks/registry.ts';
 import { pgdMeta } from '../core/attacks/pgd.ts';
@@ -23,9 +23,7 @@ import type { Norm } from '../core/types.ts';
 const { target: _target, ...UNTARGETED_SEARCH_FLAGS } = SEARCH_FLAGS;
 
 export const FLIPS_FLAGS: FlagTable = {
-  model: { kind: 'string', placeholder: '<model.json|model.onnx>', description: 'the model to evaluate' },
-  samples: { kind: 'string', placeholder: '<folder|manifest.csv>', description: 'labelled samples: a folder per class or a file,label manifest' },
-  classes: { kind: 'string', placeholder: '<file>', description: 'class names, one per line, in index order' },
+  ...INPUT_FLAGS,
   norm: { kind: 'string', placeholder: 'linf|l2', description: 'threat model norm, in pixel units on [0,1]' },
   attack: { kind: 'string', placeholder: FLIP_SEARCH_IDS.join('|'), description: 'search whose flip budgets are measured (default pgd; deepfool: its estimate, no bisection)' },
   'max-eps': { kind: 'string', placeholder: '<E>', description: 'largest budget tried (default: L∞ 0.5, L2 0.5·√pixels, where any image can become flat grey)' },
@@ -37,9 +35,7 @@ export const FLIPS_FLAGS: FlagTable = {
   overshoot: EXTRA_SEARCH_FLAGS['overshoot']!,
   'max-iterations': EXTRA_SEARCH_FLAGS['max-iterations']!,
   ...PREPROCESSING_FLAGS,
-  seed: { kind: 'string', placeholder: '<S>', description: 'random seed (default 0): same seed, same bytes' },
-  batch: { kind: 'string', placeholder: '<B>', description: 'samples per batch (default 32)' },
-  limit: { kind: 'string', placeholder: '<N>', description: 'use only the first N samples' },
+  ...RUN_FLAGS,
   out: { kind: 'string', placeholder: '<dir>', description: 'folder for flips.csv' },
   help: { kind: 'boolean', description: 'show this text' },
 };
@@ -59,23 +55,14 @@ export async function flipsCommand(args: ParsedArgs): Promise<void> {
   const norm = parseChoice(requireValue(args, 'norm'), '--norm', NORMS);
   const search = parseChoice(args.values.get('attack') ?? 'pgd', '--attack', FLIP_SEARCH_IDS);
   const options = searchOptions(args, search);
-  const seed = parseNumber(args.values.get('seed') ?? '0', '--seed', { integer: true, min: 0 });
-  const batchSize = parseNumber(args.values.get('batch') ?? '32', '--batch', { integer: true, positive: true });
-  const limitText = args.values.get('limit');
-  const limit = limitText === undefined ? undefined : parseNumber(limitText, '--limit', { integer: true, positive: true });
+  const { seed, batchSize, limit } = runSettingsFromFlags(args);
   const maxEpsText = args.values.get('max-eps');
   const givenMaxEps = maxEpsText === undefined ? null : parseNumber(maxEpsText, '--max-eps', { positive: true });
   const tol = parseNumber(args.values.get('tol') ?? String(DEFAULT_TOL), '--tol', { positive: true });
   if (givenMaxEps !== null) asUsage(() => checkBisectionSettings(givenMaxEps, tol));
 
   await startNodeBackend();
-  const inputs = await loadInputs({
-    modelPath: requireValue(args, 'model'),
-    samplesPath: requireValue(args, 'samples'),
-    classesPath: args.values.get('classes'),
-    limit,
-    preprocessing: (base, description) => preprocessingFromFlags(args, base, description),
-  });
+  const inputs = await loadInputsFromFlags(args, limit);
   try {
     const { samples } = inputs;
     const maxEps = givenMaxEps ?? defaultMaxEps(norm, samples.height * samples.width * samples.channels);

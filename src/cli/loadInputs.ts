@@ -3,7 +3,9 @@
  * user's files into a UsageError (exit code 2) with a one-line message.
  */
 import { readFile } from 'node:fs/promises';
-import { UsageError } from './args.ts';
+import type { FlagTable, ParsedArgs } from './args.ts';
+import { UsageError, requireValue } from './args.ts';
+import { preprocessingFromFlags } from './sweepFlags.ts';
 import { readModelFiles } from './nodeModelFiles.ts';
 import { readSampleFiles } from './nodeSampleFiles.ts';
 import { decodeImageNode } from './decodeImageNode.ts';
@@ -27,6 +29,27 @@ export interface InputPaths {
   readonly limit: number | undefined;
   /** Final preprocessing from the model's defaults (flags applied by the caller). */
   readonly preprocessing: (base: Preprocessing, description: ModelDescription) => Preprocessing;
+}
+
+/** The flags naming the model, the samples and the class names. */
+export const INPUT_FLAGS: FlagTable = {
+  model: { kind: 'string', placeholder: '<model.json|model.onnx>', description: 'the model to evaluate' },
+  samples: { kind: 'string', placeholder: '<folder|manifest.csv>', description: 'labelled samples: a folder per class or a file,label manifest' },
+  classes: { kind: 'string', placeholder: '<file>', description: 'class names, one per line, in index order' },
+};
+
+/**
+ * Load the inputs INPUT_FLAGS name (--model and --samples are required), keeping the first `limit`
+ * samples and applying the preprocessing flags; the caller disposes `model`.
+ */
+export function loadInputsFromFlags(args: ParsedArgs, limit: number | undefined): Promise<LoadedInputs> {
+  return loadInputs({
+    modelPath: requireValue(args, 'model'),
+    samplesPath: requireValue(args, 'samples'),
+    classesPath: args.values.get('classes'),
+    limit,
+    preprocessing: (base, description) => preprocessingFromFlags(args, base, description),
+  });
 }
 
 /** Load model and samples; the caller disposes `model`. */

@@ -5,9 +5,9 @@
 import { mkdir, writeFile } from 'node:fs/promises';
 import path from 'node:path';
 import type { FlagTable, ParsedArgs } from './args.ts';
-import { UsageError, formatUsage, parseChoice, parseNumber, parseNumberList, requireValue } from './args.ts';
-import { PREPROCESSING_FLAGS, SEARCH_FLAGS, attackOptionsFor, preprocessingFromFlags, searchOptionsFromFlags, targetFromFlag } from './sweepFlags.ts';
-import { loadInputs } from './loadInputs.ts';
+import { UsageError, formatUsage, parseChoice, parseNumberList, requireValue } from './args.ts';
+import { PREPROCESSING_FLAGS, RUN_FLAGS, SEARCH_FLAGS, attackOptionsFor, runSettingsFromFlags, searchOptionsFromFlags, targetFromFlag } from './sweepFlags.ts';
+import { INPUT_FLAGS, loadInputsFromFlags } from './loadInputs.ts';
 import { startNodeBackend } from './nodePlatform.ts';
 import { stderrProgress } from './progress.ts';
 import { EXTRA_SEARCH_FLAGS, extraSearchOptionsFromFlags } from './searchOptionFlags.ts';
@@ -23,9 +23,7 @@ import { runJson } from '../core/export/runRecord.ts';
 import type { Norm } from '../core/types.ts';
 
 export const SWEEP_FLAGS: FlagTable = {
-  model: { kind: 'string', placeholder: '<model.json|model.onnx>', description: 'the model to evaluate' },
-  samples: { kind: 'string', placeholder: '<folder|manifest.csv>', description: 'labelled samples: a folder per class or a file,label manifest' },
-  classes: { kind: 'string', placeholder: '<file>', description: 'class names, one per line, in index order' },
+  ...INPUT_FLAGS,
   attack: { kind: 'string', placeholder: '<id>[,...]', description: `searches to run at every budget: ${attackIds().join(', ')}` },
   norm: { kind: 'string', placeholder: 'linf|l2', description: 'threat model norm, in pixel units on [0,1]' },
   eps: { kind: 'string', placeholder: '<e1,e2,...>', description: 'budgets (e.g. 0,0.0078,0.0157 or 2/255 written as 0.00784)' },
@@ -33,9 +31,7 @@ export const SWEEP_FLAGS: FlagTable = {
   ...EXTRA_SEARCH_FLAGS,
   ...PREPROCESSING_FLAGS,
   ...HEALTH_FLAGS,
-  seed: { kind: 'string', placeholder: '<S>', description: 'random seed (default 0): same seed, same bytes' },
-  batch: { kind: 'string', placeholder: '<B>', description: 'samples per batch (default 32)' },
-  limit: { kind: 'string', placeholder: '<N>', description: 'use only the first N samples' },
+  ...RUN_FLAGS,
   out: { kind: 'string', placeholder: '<dir>', description: 'folder for curve.csv, samples.csv and run.json' },
   help: { kind: 'boolean', description: 'show this text' },
 };
@@ -56,19 +52,10 @@ export async function sweepCommand(args: ParsedArgs): Promise<void> {
   const epsText = requireValue(args, 'eps');
   const eps = parseNumberList(epsText, '--eps', { min: 0 });
   const attacks = parseAttackList(requireValue(args, 'attack'), norm);
-  const seed = parseNumber(args.values.get('seed') ?? '0', '--seed', { integer: true, min: 0 });
-  const batchSize = parseNumber(args.values.get('batch') ?? '32', '--batch', { integer: true, positive: true });
-  const limitText = args.values.get('limit');
-  const limit = limitText === undefined ? undefined : parseNumber(limitText, '--limit', { integer: true, positive: true });
+  const { seed, batchSize, limit } = runSettingsFromFlags(args);
 
   const backend = await startNodeBackend();
-  const inputs = await loadInputs({
-    modelPath: requireValue(args, 'model'),
-    samplesPath: requireValue(args, 'samples'),
-    classesPath: args.values.get('classes'),
-    limit,
-    preprocessing: (base, description) => preprocessingFromFlags(args, base, description),
-  });
+  const inputs = await loadInputsFromFlags(args, limit);
   try {
     const target = targetFromFlag(args.values.get('target'), inputs.samples.classNames);
     const rawOptions = { ...searchOptionsFromFlags(args, target), ...extraSearchOptionsFromFlags(args) };

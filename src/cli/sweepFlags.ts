@@ -1,6 +1,6 @@
 /**
- * Flags of `brink sweep` and their translation into core settings (attack options,
- * preprocessing). Kept apart from the command so other commands can share the preprocessing flags.
+ * Flags of `brink sweep` and their translation into core settings (attack options, preprocessing,
+ * seed, batch size and sample limit). Kept apart from the command so other commands can share them.
  */
 import type { FlagTable, ParsedArgs } from './args.ts';
 import { UsageError, parseChoice, parseNumber, parseNumberList } from './args.ts';
@@ -22,6 +22,29 @@ export const SEARCH_FLAGS: FlagTable = {
   loss: { kind: 'string', placeholder: 'ce|margin', description: 'loss on logits the search maximises (default ce)' },
   target: { kind: 'string', placeholder: '<class>|least-likely', description: 'targeted search towards a class (index or name)' },
 };
+
+/** Seed, batch size and sample limit, shared by the commands that run searches. */
+export const RUN_FLAGS: FlagTable = {
+  seed: { kind: 'string', placeholder: '<S>', description: 'random seed (default 0): same seed, same bytes' },
+  batch: { kind: 'string', placeholder: '<B>', description: 'samples per batch (default 32)' },
+  limit: { kind: 'string', placeholder: '<N>', description: 'use only the first N samples' },
+};
+
+/** What RUN_FLAGS set (defaults: seed 0, batches of 32, every sample). */
+export interface RunSettings {
+  readonly seed: number;
+  readonly batchSize: number;
+  readonly limit: number | undefined;
+}
+
+/** Seed, batch size and limit from RUN_FLAGS (a bad value is a usage error naming the flag). */
+export function runSettingsFromFlags(args: ParsedArgs): RunSettings {
+  const seed = parseNumber(args.values.get('seed') ?? '0', '--seed', { integer: true, min: 0 });
+  const batchSize = parseNumber(args.values.get('batch') ?? '32', '--batch', { integer: true, positive: true });
+  const limitText = args.values.get('limit');
+  const limit = limitText === undefined ? undefined : parseNumber(limitText, '--limit', { integer: true, positive: true });
+  return { seed, batchSize, limit };
+}
 
 const INPUT_RANGES: readonly InputRange[] = ['0,1', '0,255', '-1,1'];
 const LAYOUTS: readonly Layout[] = ['nhwc', 'nchw'];

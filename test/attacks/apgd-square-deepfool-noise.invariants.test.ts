@@ -6,17 +6,14 @@
  * bytes, memory stays flat, and an aborted signal stops each search with an AbortError (DOM
  * AbortSignal spec) without leaking tensors.
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import * as tf from '@tensorflow/tfjs';
-import { BACKENDS, useBackend } from '../helpers/backend.ts';
+import { BACKENDS } from '../helpers/backend.ts';
 import { createRng } from '../../src/core/random/rng.ts';
 import { getAttack } from '../../src/core/attacks/registry.ts';
 import type { AttackId, AttackOutcome, AttackProblem } from '../../src/core/attacks/types.ts';
-import type { Norm } from '../../src/core/types.ts';
-import { argmaxRows, tinyConvNet, tinyDenseNet, type TinyNet } from './models.ts';
-
-const N = 16;
-const BUDGET: Record<Norm, number> = { linf: 0.08, l2: 0.6 };
+import { argmaxRows } from './models.ts';
+import { BUDGET, deltaNorms, useTinyNetBatches } from './invariantSetup.ts';
 
 interface Variant {
   readonly id: AttackId;
@@ -35,34 +32,6 @@ const VARIANTS: Variant[] = [
   { id: 'noise', options: { draws: 5 }, random: true },
 ];
 
-interface Batch {
-  readonly x: tf.Tensor4D;
-  readonly labels: tf.Tensor1D;
-  readonly pixels: Float32Array;
-  dispose(): void;
-}
-
-/** Random images labelled with the net's own clean prediction (so every sample is clean-correct). */
-function makeBatch(net: TinyNet, seed: number): Batch {
-  const pixels = createRng(seed).uniformArray(N * net.shape[0] * net.shape[1] * net.shape[2], 0, 1);
-  const x = tf.tensor4d(pixels, [N, ...net.shape]);
-  const labels = tf.tensor1d(tf.tidy(() => argmaxRows(net.logits(x))), 'int32');
-  return { x, labels, pixels, dispose: () => tf.dispose([x, labels]) };
-}
-
-function deltaNorms(adv: Float32Array, clean: Float32Array, dim: number): { linf: number; l2: number }[] {
-  return Array.from({ length: adv.length / dim }, (_, n) => {
-    let linf = 0;
-    let sq = 0;
-    for (let i = n * dim; i < (n + 1) * dim; i++) {
-      const d = adv[i]! - clean[i]!;
-      linf = Math.max(linf, Math.abs(d));
-      sq += d * d;
-    }
-    return { linf, l2: Math.sqrt(sq) };
-  });
-}
-
 async function run(variant: Variant, problem: AttackProblem, seed: number, signal?: AbortSignal, onProgress?: (done: number, total: number) => void): Promise<{ out: AttackOutcome; adv: Float32Array }> {
   const attack = getAttack(variant.id);
   const out = await attack.run(problem, attack.meta.validate(variant.options), {
@@ -77,32 +46,12 @@ const describeVariant = (v: Variant): string => `${v.id} ${JSON.stringify(v.opti
 
 for (const backend of BACKENDS) {
   describe(`APGD, Square, DeepFool and noise invariants on ${backend}`, () => {
-    const nets: Record<string, TinyNet> = {};
-    const batches: Record<string, Batch> = {};
-    beforeAll(async () => {
-      await useBackend(backend);
-      nets['conv'] = tinyConvNet(31);
-      nets['dense'] = tinyDenseNet(32);
-      for (const [name, net] of Object.entries(nets)) batches[name] = makeBatch(net, 40 + name.length);
-    });
-    afterAll(() => {
-      Object.values(batches).forEach((b) => b.dispose());
-      Object.values(nets).forEach((n) => n.dispose());
-    });
-    const problemFor = (netName: string, norm: Norm): AttackProblem => {
-      const net = nets[netName]!;
-      const batch = batches[netName]!;
-      return { logits: net.logits, x: batch.x, labels: batch.labels, eps: BUDGET[norm], norm };
-    };
+    const { problemFor, caseFor } = useTinyNetBatches(backend);
 
     for (const netName of ['conv', 'dense']) {
       for (const norm of ['linf', 'l2'] as const) {
         it(`${netName} net, ${norm}: points in the threat model, flags match argmax, progress, memory flat`, async () => {
-          const net = nets[netName]!;
-          const batch = batches[netName]!;
-          const problem = problemFor(netName, norm);
-          const labels = await batch.labels.data();
-          const dim = net.shape[0] * net.shape[1] * net.shape[2];
+          const { net, batch, problem, labels, dim } = await caseFor(netName, norm);
           const before = tf.memory().numTensors;
           const flips: Record<string, number> = {};
           for (const variant of VARIANTS) {

@@ -6,6 +6,10 @@
 import * as tf from '@tensorflow/tfjs';
 import type { LogitsFn } from '../../src/core/types.ts';
 import { createRng, type Rng } from '../../src/core/random/rng.ts';
+import { logits64 } from '../flips/closedForm.ts';
+
+/** The float64 weight vector of one class (closedForm.ts, which takes any AffineWeights such as an AffineModel). */
+export { classWeights } from '../flips/closedForm.ts';
 
 export interface AffineModel {
   /** W as [D, K], row-major (w[i·K + k] is the weight of pixel i for class k). */
@@ -27,18 +31,7 @@ export function affineModel(seed: number, d: number, k: number, scale: number): 
   const wT = tf.tensor2d(w, [d, k]);
   const bT = tf.tensor1d(b);
   const logits: LogitsFn = (x) => tf.add(tf.matMul(tf.reshape(x, [x.shape[0], d]), wT), bT);
-  const logits64 = (x: ArrayLike<number>): number[] =>
-    Array.from({ length: k }, (_, c) => {
-      let z = b[c]!;
-      for (let i = 0; i < d; i++) z += w[i * k + c]! * x[i]!;
-      return z;
-    });
-  return { w, b, d, k, logits, logits64, dispose: () => tf.dispose([wT, bT]) };
-}
-
-/** Column c of W (the weight vector of class c) in float64. */
-export function classWeights(model: AffineModel, c: number): Float64Array {
-  return Float64Array.from({ length: model.d }, (_, i) => model.w[i * model.k + c]!);
+  return { w, b, d, k, logits, logits64: (x) => logits64({ w, b, d, k }, x), dispose: () => tf.dispose([wT, bT]) };
 }
 
 export interface TinyNet {

@@ -18,6 +18,7 @@ import { pgd } from '../../src/core/attacks/pgd.ts';
 import type { LossKind } from '../../src/core/attacks/types.ts';
 import type { Norm } from '../../src/core/types.ts';
 import { affineModel, classWeights, type AffineModel } from './models.ts';
+import { boxBindingImages, linfDecrease, pickSamples, type Sample } from '../flips/closedForm.ts';
 
 const SIDE = 8;
 const D = SIDE * SIDE;
@@ -28,18 +29,7 @@ const N = 200;
 function largestDecrease(c: Float64Array, x: ArrayLike<number>, eps: number, norm: Norm, box = true): number {
   if (norm === 'l2') return eps * Math.sqrt(c.reduce((s, v) => s + v * v, 0));
   if (!box) return eps * c.reduce((s, v) => s + Math.abs(v), 0);
-  let total = 0;
-  for (let i = 0; i < c.length; i++) {
-    const lo = Math.max(-eps, -x[i]!);
-    const hi = Math.min(eps, 1 - x[i]!);
-    total += Math.max(c[i]! * lo, c[i]! * hi);
-  }
-  return total;
-}
-
-interface Sample {
-  readonly x: Float32Array;
-  readonly y: number;
+  return linfDecrease(c, x, eps);
 }
 
 /** Exact robustness per sample at budget ε. */
@@ -68,28 +58,6 @@ function minimalBudget(model: AffineModel, sample: Sample, norm: Norm): number {
   return hi;
 }
 
-/** Images for the L∞ case: a third of the pixels at 0, a fifth at 1 (so the box binds), the rest uniform. */
-function linfImages(seed: number): Float32Array {
-  const rng = createRng(seed);
-  return Float32Array.from({ length: N * 2 * D }, () => {
-    const u = rng.next();
-    return u < 1 / 3 ? 0 : u < 1 / 3 + 1 / 5 ? 1 : rng.next();
-  });
-}
-
-/** Clean-correct samples with a clear top margin, label = argmax of the clean logits. */
-function pickSamples(model: AffineModel, pixels: Float32Array): Sample[] {
-  const out: Sample[] = [];
-  for (let n = 0; out.length < N; n++) {
-    const x = pixels.slice(n * D, (n + 1) * D);
-    if (x.length < D) throw new Error('not enough candidate images');
-    const z = model.logits64(x);
-    const sorted = [...z].sort((a, b) => b - a);
-    if (sorted[0]! - sorted[1]! > 1e-3) out.push({ x, y: z.indexOf(sorted[0]!) });
-  }
-  return out;
-}
-
 function quantile(values: number[], q: number): number {
   const s = [...values].sort((a, b) => a - b);
   return s[Math.min(s.length - 1, Math.floor(q * s.length))]!;
@@ -116,13 +84,14 @@ describe('PGD versus the exact robust accuracy of an affine classifier (wasm)', 
   afterAll(() => model.dispose());
 
   const settings: { norm: Norm; images: () => Float32Array }[] = [
-    { norm: 'linf', images: () => linfImages(8) },
+    // L∞: pixels at 0 and 1 often enough that the box binds (test/flips/closedForm.ts).
+    { norm: 'linf', images: () => boxBindingImages(8, N * 2 * D) },
     // L2: pixels in [0.3, 0.7]; budgets are checked below 0.3 so the box cannot bind (|δ_i| ≤ ‖δ‖₂).
     { norm: 'l2', images: () => createRng(9).uniformArray(N * 2 * D, 0.3, 0.7) },
   ];
   for (const { norm, images } of settings) {
     it(`${norm}: never below the exact value; margin loss within 4 points`, async () => {
-      const samples = pickSamples(model, images());
+      const samples = pickSamples(model, images(), N);
       const minimal = samples.map((s) => minimalBudget(model, s, norm));
       const budgets = [0.25, 0.5, 0.75].map((q) => quantile(minimal, q));
       if (norm === 'l2') expect(Math.max(...budgets)).toBeLessThan(0.3);

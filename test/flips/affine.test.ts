@@ -11,21 +11,12 @@ import { robustAccuracyFromFlips } from '../../src/core/flips/curve.ts';
 import type { FlipBudgetConfig, FlipSearchId } from '../../src/core/flips/types.ts';
 import type { Norm, SampleSet } from '../../src/core/types.ts';
 import { affineModel, type AffineModel } from '../attacks/models.ts';
-import { medianOf, minimalL2, minimalLinf, pickSamples, type Sample } from './closedForm.ts';
+import { boxBindingImages, medianOf, minimalL2, minimalLinf, pickSamples, type Sample } from './closedForm.ts';
 
 const SIDE = 8;
 const D = SIDE * SIDE;
 const K = 5;
 const N = 40;
-
-/** L∞ images: a third of the pixels at 0, a fifth at 1 (so the box binds), the rest uniform. */
-function linfImages(seed: number): Float32Array {
-  const rng = createRng(seed);
-  return Float32Array.from({ length: 4 * N * D }, () => {
-    const u = rng.next();
-    return u < 1 / 3 ? 0 : u < 1 / 3 + 1 / 5 ? 1 : rng.next();
-  });
-}
 
 /** Interior images: pixels in [0.3, 0.7], so the box cannot bind below a budget of 0.3 (|δ_i| ≤ ‖δ‖). */
 function interiorImages(seed: number): Float32Array {
@@ -81,7 +72,7 @@ describe('flip budgets of affine classifiers against the closed form (wasm)', ()
 
   for (const c of CASES) {
     it(`${c.search} ${c.norm} (${c.images} images): never below the exact budget, median within ${Math.round(100 * (c.medianRatio - 1))} %`, async () => {
-      const samples = pickSamples(model, c.images === 'box' ? linfImages(8) : interiorImages(9), N);
+      const samples = pickSamples(model, c.images === 'box' ? boxBindingImages(8, 4 * N * D) : interiorImages(9), N);
       const exact = samples.map((s) => (c.norm === 'linf' ? minimalLinf(model, s) : minimalL2(model, s)));
       // Interior images: every |δ_i| ≤ ‖δ‖ < 0.3, so the box never binds and the closed forms above are exact.
       if (c.images === 'interior') expect(Math.max(...exact)).toBeLessThan(0.3);

@@ -9,6 +9,7 @@
  *   L∞ with the box:   Σ_i max over δ_i ∈ [max(−ε, −x_i), min(ε, 1 − x_i)] of (w_j − w_y)_i·δ_i, which
  *                      grows monotonically with ε, so the minimal budget is found by bisection.
  */
+import { createRng } from '../../src/core/random/rng.ts';
 
 /** z = Wᵀx + b with W as [D, K] row-major (w[i·K + k] is the weight of pixel i for class k). */
 export interface AffineWeights {
@@ -27,7 +28,8 @@ export function logits64(model: AffineWeights, x: ArrayLike<number>): number[] {
   });
 }
 
-function classWeights(model: AffineWeights, c: number): Float64Array {
+/** Column c of W (the weight vector of class c) in float64. */
+export function classWeights(model: AffineWeights, c: number): Float64Array {
   return Float64Array.from({ length: model.d }, (_, i) => model.w[i * model.k + c]!);
 }
 
@@ -36,8 +38,8 @@ export interface Sample {
   readonly y: number;
 }
 
-/** Largest decrease of z_y − z_j reachable in the L∞ ball of radius ε intersected with [0,1]. */
-function linfDecrease(c: Float64Array, x: ArrayLike<number>, eps: number): number {
+/** Largest decrease of z_y − z_j (c = w_j − w_y) reachable in the L∞ ball of radius ε intersected with [0,1]. */
+export function linfDecrease(c: Float64Array, x: ArrayLike<number>, eps: number): number {
   let total = 0;
   for (let i = 0; i < c.length; i++) {
     const lo = Math.max(-eps, -x[i]!);
@@ -78,6 +80,15 @@ export function minimalLinf(model: AffineWeights, s: Sample): number {
     else lo = mid;
   }
   return hi;
+}
+
+/** `length` pixel values for the L∞ cases: a third at 0, a fifth at 1 (so the box binds), the rest uniform. */
+export function boxBindingImages(seed: number, length: number): Float32Array {
+  const rng = createRng(seed);
+  return Float32Array.from({ length }, () => {
+    const u = rng.next();
+    return u < 1 / 3 ? 0 : u < 1 / 3 + 1 / 5 ? 1 : rng.next();
+  });
 }
 
 /** Clean-correct samples (label = argmax of the clean logits, top margin > 1e-3) from candidate images. */

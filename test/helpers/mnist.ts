@@ -22,6 +22,9 @@ export interface DigitBatch {
 
 /** `perClass` digits of every class starting at index `offset` within each class, interleaved by class. */
 export function mnistDigits(perClass: number, offset = 0): DigitBatch {
+  // Past the end of a class the package hands out random digits, so refuse such ranges.
+  const shortest = mnistMinClassSize();
+  if (offset + perClass > shortest) throw new Error(`mnist: digits ${offset}..${offset + perClass - 1} requested, but the smallest class has ${shortest}`);
   const perClassImages = Array.from({ length: 10 }, (_, d) => digits[d]!.range(offset, offset + perClass - 1));
   const count = perClass * 10;
   const pixels = new Float32Array(count * 784);

@@ -39,7 +39,7 @@ describe('per-class robustness and flip matrices of a sweep (wasm)', () => {
     model = meansPlusRandomReluModel(11);
     result = await runSweep({
       logits: model.logits,
-      samples: mnistSampleSet(6, 900),
+      samples: mnistSampleSet(6, 840),
       config: { attacks: [{ id: 'fgsm', options: {} }, { id: 'pgd', options: { steps: 5 } }], norm: 'linf', eps: [0, 0.05, 0.1], seed: 4, batchSize: 30 },
     });
   });

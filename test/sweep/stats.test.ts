@@ -3,16 +3,16 @@ import { describe, expect, it } from 'vitest';
 import { wilsonInterval, Z95 } from '../../src/core/stats/wilson.ts';
 import { meanRobustAccuracy, median, medianFlipBudget } from '../../src/core/stats/curve.ts';
 import type { CurvePoint, SampleRecord } from '../../src/core/sweep/types.ts';
+import { WILSON_REFERENCE } from '../helpers/wilsonReference.ts';
 
 describe('Wilson score interval (Wilson 1927)', () => {
   it('matches a reference statistics library', () => {
-    // Reference: statsmodels proportion_confint(method="wilson") values, 95 % (the same reference as test/smoke.test.ts).
-    const a = wilsonInterval(7, 50);
-    expect(a.low).toBeCloseTo(0.0695, 4);
-    expect(a.high).toBeCloseTo(0.2619, 4);
-    const b = wilsonInterval(900, 1000);
-    expect(b.low).toBeCloseTo(0.8798, 4);
-    expect(b.high).toBeCloseTo(0.9171, 4);
+    // Reference: statsmodels proportion_confint(method="wilson") values, 95 %, to 4 decimals (test/helpers/wilsonReference.ts).
+    for (const reference of WILSON_REFERENCE) {
+      const { low, high } = wilsonInterval(reference.successes, reference.trials);
+      expect(low).toBeCloseTo(reference.low, 4);
+      expect(high).toBeCloseTo(reference.high, 4);
+    }
   });
 
   it('uses z = Φ⁻¹(0.975)', () => {

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import type { AdversarialOutcome, SampleRecord, SweepResult } from '../../src/core/sweep/types.ts';
 import { sweepStatistics } from '../../src/core/stats/perClass.ts';
-import { cellShade, choiceKey, defaultChoice, matrixTotals, statChoices, statsAt } from '../../src/ui/lib/classStats.ts';
+import type { SavedRun } from '../../src/core/savedRun/types.ts';
+import { cellShade, choiceKey, defaultChoice, matrixTotals, savedRunClassViews, statChoices, statsAt } from '../../src/ui/lib/classStats.ts';
 
 /** A sweep of five hand-made images over two classes, FGSM and PGD at ε = 0 and 0.1. */
 function sweep(): SweepResult {
@@ -42,6 +43,26 @@ describe('per-class views', () => {
     expect(matrixTotals(at.matrix)).toEqual({ rows: [2, 3], columns: [3, 2], diagonal: 2, total: 5 });
     // The diagonal equals the images that held: correct clean and not flipped (images 1 and 3).
     expect(at.perClass.classes.map((c) => c.robust)).toEqual([1, 1]);
+  });
+
+  it('computes the same views for a saved run from its records, with the class names of its run record', () => {
+    const result = sweep();
+    // Only the fields sweepResultOf reads; the rest of a saved file plays no part here.
+    const saved = {
+      run: { config: result.config, samples: { cleanAccuracy: 0.8, cleanCorrect: 4, count: 5, classNames: ['left', 'right'] }, curve: [], complete: true, startedAt: '', endedAt: '' },
+      records: result.records,
+    } as unknown as SavedRun;
+    const at = statsAt(savedRunClassViews(saved), choiceKey('pgd', 0.1))!;
+    // The same hand counts as above: left → [1 left, 1 right]; right → [2 left, 1 right]; images 1 and 3 held.
+    expect(at.matrix.counts).toEqual([
+      [1, 1],
+      [2, 1],
+    ]);
+    expect(at.matrix.classNames).toEqual(['left', 'right']);
+    expect(at.perClass.classes.map((c) => [c.className, c.samples, c.robust])).toEqual([
+      ['left', 2, 1],
+      ['right', 3, 1],
+    ]);
   });
 
   it('shades a cell by its share of the row, and not at all when empty', () => {

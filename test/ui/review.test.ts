@@ -5,7 +5,7 @@
 import { describe, expect, it } from 'vitest';
 import { DEMO_PLAN, toSweepConfig, type PlanSettings } from '../../src/ui/lib/plan.ts';
 import { parseBudgetValue } from '../../src/ui/lib/budgets.ts';
-import { budgetText, demoModelOf, planFromConfig, savedAtText, uniqueLabel } from '../../src/ui/lib/review.ts';
+import { budgetText, demoModelOf, planFromConfig, reviewStepText, savedAtText, uniqueLabel } from '../../src/ui/lib/review.ts';
 import { CURRENT_RUN, INITIAL_REVIEW, comparedIds, comparisonChosen, entryAdded, entryRemoved, inclusionToggled } from '../../src/ui/store/review.ts';
 import { differenceExcludesZero, differenceText, points } from '../../src/ui/lib/compareFigure.ts';
 import { newcombeDifference } from '../../src/core/compare/newcombe.ts';
@@ -90,6 +90,19 @@ describe('the run list', () => {
     expect(removed.viewing).toBeNull();
     expect(removed.baseline).toBeNull();
     expect(comparedIds(removed, true)).toEqual([CURRENT_RUN]);
+  });
+
+  it('counts the runs in the review step status line', () => {
+    const facts = (state: typeof two, current: boolean, busy = false) => ({ kept: state.entries.length, current, compared: comparedIds(state, current).length, busy });
+    // Two kept runs and the current one, all ticked: three to compare; one unticked leaves two.
+    expect(reviewStepText(facts(two, true))).toBe('3 runs to compare');
+    expect(reviewStepText(facts(inclusionToggled(two, 'run-1'), true))).toBe('2 runs to compare');
+    // Two of three unticked: nothing to compare, and the line says how many are ticked.
+    expect(reviewStepText(facts(inclusionToggled(inclusionToggled(two, 'run-1'), 'run-2'), true))).toBe('1 of 3 runs ticked');
+    expect(reviewStepText(facts(INITIAL_REVIEW, false))).toBe('nothing saved yet');
+    expect(reviewStepText(facts(INITIAL_REVIEW, true))).toBe("this session's run only");
+    expect(reviewStepText(facts(entryRemoved(two, 'run-2'), false))).toBe('1 saved run');
+    expect(reviewStepText(facts(two, true, true))).toBe('working…');
   });
 });
 

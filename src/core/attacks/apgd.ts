@@ -19,16 +19,14 @@
  */
 import * as tf from '@tensorflow/tfjs';
 import type { AttackContext, AttackMeta, AttackMethod, AttackOutcome, AttackProblem, TargetMode } from './types.ts';
-import { misclassified, perSampleLoss } from './losses.ts';
+import { perSampleLoss } from './losses.ts';
 import { dlrLoss, targetedDlrLoss } from './dlr.ts';
-import { objectiveAndInputGradient, objectiveAndLogits, type LogitObjective } from './objective.ts';
+import type { LogitObjective } from './objective.ts';
 import { normalisedStep, projectToThreatModel } from './projections.ts';
-import { resolveTargets } from './targets.ts';
-import { makeYielder, throwIfAborted } from './control.ts';
 import { tidyObject } from './tensors.ts';
-import { activeSamples, createSearchState, recordIterate, type SearchState } from './searchState.ts';
 import { StepSizeSchedule } from './apgdSchedule.ts';
-import { flagUnattackable, PlanProgress } from './searchSupport.ts';
+import { evaluateIterate, runIterates } from './iterateLoop.ts';
+import { runRestarts, type RestartRun } from './searchSupport.ts';
 import { apgdStart } from './randomPoints.ts';
 import { checkBoolean, checkPositiveInteger, checkTarget, rejectUnknownOptions } from './options.ts';
 
@@ -80,39 +78,15 @@ function apgdMeta(loss: ApgdLoss): AttackMeta<ApgdOptions> {
   };
 }
 
-interface RestartEnv {
+interface RestartEnv extends RestartRun {
   readonly loss: ApgdLoss;
   readonly problem: AttackProblem;
   readonly options: ApgdOptions;
   readonly context: AttackContext;
-  readonly targets: tf.Tensor1D | null;
-  readonly state: SearchState;
-  readonly progress: PlanProgress;
-  readonly pause: () => Promise<void>;
 }
 
-async function runApgd(loss: ApgdLoss, problem: AttackProblem, options: ApgdOptions, context: AttackContext): Promise<AttackOutcome> {
-  throwIfAborted(context.signal);
-  const n = problem.x.shape[0];
-  if (n === 0) return { adv: tf.clone(problem.x), flipped: new Uint8Array(0), gradientEvaluations: 0 };
-  const { targets, attackable } = await resolveTargets(loss === 'ce' ? 'apgd-ce' : 'apgd-dlr', problem, options.target);
-  try {
-    const state = createSearchState(new Float32Array(await problem.x.data()), n);
-    const progress = new PlanProgress(n * options.steps * options.restarts, context);
-    const env: RestartEnv = { loss, problem, options, context, targets, state, progress, pause: makeYielder() };
-    for (let r = 0; r < options.restarts; r++) {
-      throwIfAborted(context.signal);
-      const samples = activeSamples(state, attackable);
-      if (samples.length === 0) break;
-      await runRestart(env, samples);
-      progress.reach(n * options.steps * (r + 1));
-    }
-    await flagUnattackable(problem, attackable, state.flipped);
-    progress.finish();
-    return { adv: tf.tensor4d(state.points, problem.x.shape), flipped: state.flipped, gradientEvaluations: state.gradientRows / n };
-  } finally {
-    targets?.dispose();
-  }
+function runApgd(loss: ApgdLoss, problem: AttackProblem, options: ApgdOptions, context: AttackContext): Promise<AttackOutcome> {
+  return runRestarts(loss === 'ce' ? 'apgd-ce' : 'apgd-dlr', problem, options, context, (run, samples) => runRestart({ ...run, loss, problem, options, context }, samples));
 }
 
 /** The tensors of the rows a restart still attacks. */
@@ -136,36 +110,24 @@ interface StepPlan {
   readonly eta: Float32Array;
 }
 
-async function runRestart(env: RestartEnv, firstSamples: number[]): Promise<void> {
-  const { problem, options, state } = env;
+async function runRestart(env: RestartEnv, samples: number[]): Promise<void> {
+  const { problem, options } = env;
   const schedule = new StepSizeSchedule(problem.x.shape[0], options.steps);
-  let samples = firstSamples;
-  let rows = startRows(env, samples);
-  try {
-    for (let k = 0; ; k++) {
-      const last = k === options.steps;
-      const evaluated = tidyObject(() => evaluate(env, rows, last));
-      let stillActive: number[];
-      try {
-        const [iterate, loss, mis] = await Promise.all([rows.current.data(), evaluated.loss.data(), evaluated.mis.data()]);
-        stillActive = recordIterate(state, samples, iterate as Float32Array, loss, mis);
-        if (!last) state.gradientRows += samples.length;
-        if (last || stillActive.length === 0) break;
-        const plan = planStep(schedule, k, problem.eps, samples, loss, stillActive);
-        const next = tidyObject(() => stepRows(env, rows, evaluated.grad!, stillActive, plan, k === 0));
-        disposeRows(rows);
-        rows = next;
-      } finally {
-        tf.dispose([evaluated.loss, evaluated.mis, ...(evaluated.grad ? [evaluated.grad] : [])]);
-      }
-      samples = stillActive.map((i) => samples[i]!);
-      env.progress.advance(problem.x.shape[0]);
-      throwIfAborted(env.context.signal);
-      await env.pause();
-    }
-  } finally {
-    disposeRows(rows);
-  }
+  await runIterates(
+    {
+      steps: options.steps,
+      signal: env.context.signal,
+      pause: env.pause,
+      evaluate: (rows, forwardOnly) => evaluateIterate(problem.logits, rows.current, rows.labels, objectiveFor(env.loss, rows), forwardOnly),
+      step: (rows, grad, keep, { k, samples: rowSamples, loss }) =>
+        stepRows(env, rows, grad, keep, planStep(schedule, k, problem.eps, rowSamples, loss, keep), k === 0),
+      dispose: disposeRows,
+      afterStep: () => env.progress.advance(problem.x.shape[0]),
+    },
+    env.state,
+    samples,
+    startRows(env, samples),
+  );
 }
 
 /** Runs the schedule for the kept rows after f(x(k)) is known. */
@@ -188,27 +150,10 @@ function planStep(schedule: StepSizeSchedule, k: number, eps: number, samples: r
   return { improved, halved, eta };
 }
 
-interface Evaluation {
-  readonly loss: tf.Tensor1D;
-  readonly mis: tf.Tensor1D;
-  /** Absent for the final, forward-only evaluation. */
-  readonly grad?: tf.Tensor4D;
-}
-
 function objectiveFor(loss: ApgdLoss, rows: Rows): LogitObjective {
   const { labels, targets } = rows;
   if (loss === 'ce') return (z) => perSampleLoss(z, labels, 'ce', targets);
   return targets === null ? (z) => dlrLoss(z, labels) : (z) => targetedDlrLoss(z, labels, targets);
-}
-
-function evaluate(env: RestartEnv, rows: Rows, forwardOnly: boolean): Evaluation {
-  const objective = objectiveFor(env.loss, rows);
-  if (forwardOnly) {
-    const { loss, logits } = objectiveAndLogits(env.problem.logits, rows.current, objective);
-    return { loss, mis: misclassified(logits, rows.labels) };
-  }
-  const { loss, logits, grad } = objectiveAndInputGradient(env.problem.logits, rows.current, objective);
-  return { loss, mis: misclassified(logits, rows.labels), grad };
 }
 
 function rowMask(values: Uint8Array): tf.Tensor4D {

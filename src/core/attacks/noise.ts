@@ -12,7 +12,8 @@
 import * as tf from '@tensorflow/tfjs';
 import type { AttackContext, AttackMeta, AttackMethod, AttackOutcome, AttackProblem } from './types.ts';
 import { misclassified, perSampleLoss } from './losses.ts';
-import { l2Sphere, linfCorners, perturbInBox } from './randomPoints.ts';
+import { l2Sphere, linfCorners } from './randomPoints.ts';
+import { perturbInBox } from './projections.ts';
 import { makeYielder, throwIfAborted } from './control.ts';
 import { tidyObject } from './tensors.ts';
 import { createSearchState, recordIterate } from './searchState.ts';

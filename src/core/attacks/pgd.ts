@@ -7,16 +7,16 @@
  * Bookkeeping (see README.md): every iterate is evaluated, the start point and the last one included.
  * A sample seen misclassified at any iterate of any restart is flipped; that point is frozen and the
  * sample is no longer attacked. Restarts continue only the unflipped samples. For a sample never
- * flipped, the point returned is the one of highest loss among all its iterates.
+ * flipped, the point returned is the one of highest loss among all its iterates. The restarts run in
+ * searchSupport.ts (runRestarts) and each restart's iterates in iterateLoop.ts (runIterates), as for APGD.
  */
 import * as tf from '@tensorflow/tfjs';
 import type { AttackContext, AttackMeta, AttackMethod, AttackOutcome, AttackProblem, LossKind, TargetMode } from './types.ts';
-import { lossAndInputGradient, lossAndLogits, misclassified } from './losses.ts';
+import { perSampleLoss } from './losses.ts';
 import { normalisedStep, projectToThreatModel, randomStart } from './projections.ts';
-import { resolveTargets } from './targets.ts';
-import { makeYielder, throwIfAborted } from './control.ts';
 import { tidyObject } from './tensors.ts';
-import { activeSamples, createSearchState, recordIterate, type SearchState } from './searchState.ts';
+import { evaluateIterate, keptRows, runIterates } from './iterateLoop.ts';
+import { runRestarts, type RestartRun } from './searchSupport.ts';
 import { checkBoolean, checkLoss, checkPositiveInteger, checkPositiveOrNull, checkTarget, rejectUnknownOptions } from './options.ts';
 
 export interface PgdOptions {
@@ -71,49 +71,17 @@ export const pgdMeta: AttackMeta<PgdOptions> = {
 };
 
 /** Everything one restart needs besides the tensors it owns. */
-interface RestartEnv {
+interface RestartEnv extends RestartRun {
   readonly problem: AttackProblem;
   readonly options: PgdOptions;
   readonly context: AttackContext;
-  readonly targets: tf.Tensor1D | null;
-  readonly state: SearchState;
   readonly stepSize: number;
-  readonly progress: PlanProgress;
-  readonly pause: () => Promise<void>;
 }
 
 /** Run PGD on a batch. */
 export async function runPgd(problem: AttackProblem, options: PgdOptions, context: AttackContext): Promise<AttackOutcome> {
-  throwIfAborted(context.signal);
-  const n = problem.x.shape[0];
-  if (n === 0) return { adv: tf.clone(problem.x), flipped: new Uint8Array(0), gradientEvaluations: 0 };
-  const { targets, attackable } = await resolveTargets('pgd', problem, options.target);
-  try {
-    const state = createSearchState(new Float32Array(await problem.x.data()), n);
-    const progress = new PlanProgress(n * options.steps * options.restarts, context);
-    const env: RestartEnv = {
-      problem,
-      options,
-      context,
-      targets,
-      state,
-      stepSize: options.stepSize ?? (2.5 * problem.eps) / options.steps,
-      progress,
-      pause: makeYielder(),
-    };
-    for (let r = 0; r < options.restarts; r++) {
-      throwIfAborted(context.signal);
-      const samples = activeSamples(state, attackable);
-      if (samples.length === 0) break;
-      await runRestart(env, samples);
-      progress.reach(n * options.steps * (r + 1));
-    }
-    await flagUnattackable(problem, attackable, state);
-    progress.reach(progress.total);
-    return { adv: tf.tensor4d(state.points, problem.x.shape), flipped: state.flipped, gradientEvaluations: state.gradientRows / n };
-  } finally {
-    targets?.dispose();
-  }
+  const stepSize = options.stepSize ?? (2.5 * problem.eps) / options.steps;
+  return runRestarts('pgd', problem, options, context, (run, samples) => runRestart({ ...run, problem, options, context, stepSize }, samples));
 }
 
 /** The tensors of the rows a restart still attacks. */
@@ -124,58 +92,29 @@ interface Rows {
   readonly current: tf.Tensor4D;
 }
 
-async function runRestart(env: RestartEnv, firstSamples: number[]): Promise<void> {
-  const { problem, options, state } = env;
-  let samples = firstSamples;
-  let rows = gatherRows(env, samples);
-  try {
-    for (let step = 0; ; step++) {
-      const last = step === options.steps;
-      const evaluated = tidyObject(() => evaluate(env, rows, last));
-      let stillActive: number[];
-      try {
-        const [iterate, loss, mis] = await Promise.all([rows.current.data(), evaluated.loss.data(), evaluated.mis.data()]);
-        stillActive = recordIterate(state, samples, iterate as Float32Array, loss, mis);
-        if (!last) state.gradientRows += samples.length;
-        if (last || stillActive.length === 0) break;
-        const next = tidyObject(() => stepRows(env, rows, evaluated.grad!, stillActive));
-        disposeRows(rows);
-        rows = next;
-      } finally {
-        tf.dispose([evaluated.loss, evaluated.mis, ...(evaluated.grad ? [evaluated.grad] : [])]);
-      }
-      samples = stillActive.map((i) => samples[i]!);
-      env.progress.advance(problem.x.shape[0]);
-      throwIfAborted(env.context.signal);
-      await env.pause();
-    }
-  } finally {
-    disposeRows(rows);
-  }
-}
-
-interface Evaluation {
-  readonly loss: tf.Tensor1D;
-  readonly mis: tf.Tensor1D;
-  /** Absent for the final, forward-only evaluation. */
-  readonly grad?: tf.Tensor4D;
-}
-
-function evaluate(env: RestartEnv, rows: Rows, forwardOnly: boolean): Evaluation {
+async function runRestart(env: RestartEnv, samples: number[]): Promise<void> {
   const { problem, options } = env;
-  if (forwardOnly) {
-    const { loss, logits } = lossAndLogits(problem.logits, rows.current, rows.labels, options.loss, rows.targets);
-    return { loss, mis: misclassified(logits, rows.labels) };
-  }
-  const { loss, logits, grad } = lossAndInputGradient(problem.logits, rows.current, rows.labels, options.loss, rows.targets);
-  return { loss, mis: misclassified(logits, rows.labels), grad };
+  await runIterates(
+    {
+      steps: options.steps,
+      signal: env.context.signal,
+      pause: env.pause,
+      evaluate: (rows, forwardOnly) =>
+        evaluateIterate(problem.logits, rows.current, rows.labels, (z) => perSampleLoss(z, rows.labels, options.loss, rows.targets), forwardOnly),
+      step: (rows, grad, keep) => stepRows(env, rows, grad, keep),
+      dispose: disposeRows,
+      afterStep: () => env.progress.advance(problem.x.shape[0]),
+    },
+    env.state,
+    samples,
+    gatherRows(env, samples),
+  );
 }
 
 /** One ascent step for the rows in `keep` (local indices); the flipped rows are dropped. */
 function stepRows(env: RestartEnv, rows: Rows, grad: tf.Tensor4D, keep: number[]): Rows {
   const { eps, norm } = env.problem;
-  const sub = keep.length === rows.labels.shape[0] ? null : tf.tensor1d(keep, 'int32');
-  const pick = <T extends tf.Tensor>(t: T): T => (sub === null ? tf.clone(t) : tf.gather(t, sub));
+  const pick = keptRows(keep, rows.labels.shape[0]);
   const clean = pick(rows.clean);
   const current = pick(rows.current);
   const ascent = tf.mul(env.stepSize, normalisedStep(pick(grad), norm));
@@ -203,45 +142,6 @@ function gatherRows(env: RestartEnv, samples: number[]): Rows {
 
 function disposeRows(rows: Rows): void {
   tf.dispose([rows.clean, rows.labels, rows.current, ...(rows.targets ? [rows.targets] : [])]);
-}
-
-/** Samples a targeted search skipped keep x; flag them by the model's own verdict at x. */
-async function flagUnattackable(problem: AttackProblem, attackable: Uint8Array, state: SearchState): Promise<void> {
-  const skipped: number[] = [];
-  attackable.forEach((a, i) => {
-    if (a === 0) skipped.push(i);
-  });
-  if (skipped.length === 0) return;
-  const mis = tf.tidy(() => {
-    const index = tf.tensor1d(skipped, 'int32');
-    return misclassified(problem.logits(tf.gather(problem.x, index)), tf.gather(problem.labels, index));
-  });
-  const values = await mis.data();
-  mis.dispose();
-  skipped.forEach((sample, i) => {
-    state.flipped[sample] = values[i] === 0 ? 0 : 1;
-  });
-}
-
-/**
- * Progress in planned gradient evaluations (samples × steps × restarts): steps saved because
- * samples were already flipped count as done, so the fraction moves evenly and ends at 1.
- */
-class PlanProgress {
-  private done = 0;
-  constructor(
-    readonly total: number,
-    private readonly context: AttackContext,
-  ) {}
-  advance(amount: number): void {
-    this.reach(this.done + amount);
-  }
-  reach(value: number): void {
-    const next = Math.min(this.total, value);
-    if (next <= this.done) return;
-    this.done = next;
-    this.context.onProgress?.(this.done, this.total);
-  }
 }
 
 /** PGD behind the shared attack interface. */

@@ -57,20 +57,35 @@ export function uniformLinfBall(count: number, dim: number, eps: number, rng: Rn
 export function uniformL2Ball(count: number, dim: number, eps: number, rng: Rng): Float32Array {
   const out = rng.normalArray(count * dim);
   const radii = rng.uniformArray(count, 0, 1);
-  for (let s = 0; s < count; s++) {
+  return scaleRowsToLength(out, dim, (row) => eps * Math.pow(radii[row]!, 1 / dim));
+}
+
+/**
+ * Scales every row of `vectors` (rows of `dim` entries) in place to the Euclidean length
+ * `lengthOf(row)`; row norms are computed in double precision, a zero row stays zero. Returns `vectors`.
+ */
+export function scaleRowsToLength(vectors: Float32Array, dim: number, lengthOf: (row: number) => number): Float32Array {
+  const count = dim === 0 ? 0 : vectors.length / dim;
+  for (let row = 0; row < count; row++) {
     let squared = 0;
-    for (let i = s * dim; i < (s + 1) * dim; i++) squared += out[i]! * out[i]!;
-    const scale = (eps * Math.pow(radii[s]!, 1 / dim)) / Math.max(Math.sqrt(squared), TINY);
-    for (let i = s * dim; i < (s + 1) * dim; i++) out[i] = out[i]! * scale;
+    for (let i = row * dim; i < (row + 1) * dim; i++) squared += vectors[i]! * vectors[i]!;
+    const scale = lengthOf(row) / Math.max(Math.sqrt(squared), TINY);
+    for (let i = row * dim; i < (row + 1) * dim; i++) vectors[i] = vectors[i]! * scale;
   }
-  return out;
+  return vectors;
 }
 
 /** A random starting point: x + δ with δ uniform in the ε-ball, then clipped to [0, 1]. */
 export function randomStart(x: tf.Tensor4D, eps: number, norm: Norm, rng: Rng): tf.Tensor4D {
   const [count, h, w, c] = x.shape;
   const dim = h * w * c;
-  const delta = norm === 'linf' ? uniformLinfBall(count, dim, eps, rng) : uniformL2Ball(count, dim, eps, rng);
-  // Clipping to the box keeps the point in the ball (see projectToThreatModel).
+  return perturbInBox(x, norm === 'linf' ? uniformLinfBall(count, dim, eps, rng) : uniformL2Ball(count, dim, eps, rng));
+}
+
+/**
+ * x + δ clipped to [0, 1], for a perturbation δ (x's shape, flattened) drawn from the Rng. For δ inside
+ * the ε-ball the point stays inside it: clipping only moves pixels towards x (see projectToThreatModel).
+ */
+export function perturbInBox(x: tf.Tensor4D, delta: Float32Array): tf.Tensor4D {
   return tf.tidy(() => tf.clipByValue(tf.add(x, tf.tensor4d(delta, x.shape)), 0, 1));
 }

@@ -1,10 +1,13 @@
 /**
- * Pieces the iterative searches added after FGSM and PGD share: progress in planned units, and the
- * final verdict on samples a targeted search had to leave alone. (pgd.ts keeps its own copies.)
+ * Pieces the iterative searches share: progress in planned units, the final verdict on samples a
+ * targeted search had to leave alone, and the restart driver of PGD and APGD.
  */
 import * as tf from '@tensorflow/tfjs';
-import type { AttackContext, AttackProblem } from './types.ts';
+import type { AttackContext, AttackId, AttackOutcome, AttackProblem, TargetMode } from './types.ts';
 import { misclassified } from './losses.ts';
+import { resolveTargets } from './targets.ts';
+import { makeYielder, throwIfAborted } from './control.ts';
+import { activeSamples, createSearchState, type SearchState } from './searchState.ts';
 
 /**
  * Progress in planned units (e.g. samples × steps × restarts): units saved because samples were
@@ -57,4 +60,56 @@ export async function flagUnattackable(problem: AttackProblem, attackable: Uint8
 /** Row indices [0, count) as a plain array. */
 export function allRows(count: number): number[] {
   return Array.from({ length: count }, (_, i) => i);
+}
+
+/** What the restart driver hands every restart of a search. */
+export interface RestartRun {
+  /** Target class per sample (null when untargeted); owned by the driver. */
+  readonly targets: tf.Tensor1D | null;
+  readonly state: SearchState;
+  readonly progress: PlanProgress;
+  /** One yielder for the whole run (see control.ts). */
+  readonly pause: () => Promise<void>;
+}
+
+/** The options the restart driver reads. */
+export interface RestartPlan {
+  readonly steps: number;
+  readonly restarts: number;
+  readonly target: TargetMode;
+}
+
+/**
+ * Runs `plan.restarts` restarts of an iterative search with PGD's bookkeeping (README.md): targets are
+ * resolved once, each restart attacks only the attackable samples not yet flipped, progress counts
+ * planned sample-steps (samples × steps × restarts), and skipped samples get the model's own verdict.
+ */
+export async function runRestarts(
+  id: AttackId,
+  problem: AttackProblem,
+  plan: RestartPlan,
+  context: AttackContext,
+  restart: (run: RestartRun, samples: number[]) => Promise<void>,
+): Promise<AttackOutcome> {
+  throwIfAborted(context.signal);
+  const n = problem.x.shape[0];
+  if (n === 0) return { adv: tf.clone(problem.x), flipped: new Uint8Array(0), gradientEvaluations: 0 };
+  const { targets, attackable } = await resolveTargets(id, problem, plan.target);
+  try {
+    const state = createSearchState(new Float32Array(await problem.x.data()), n);
+    const progress = new PlanProgress(n * plan.steps * plan.restarts, context);
+    const run: RestartRun = { targets, state, progress, pause: makeYielder() };
+    for (let r = 0; r < plan.restarts; r++) {
+      throwIfAborted(context.signal);
+      const samples = activeSamples(state, attackable);
+      if (samples.length === 0) break;
+      await restart(run, samples);
+      progress.reach(n * plan.steps * (r + 1));
+    }
+    await flagUnattackable(problem, attackable, state.flipped);
+    progress.finish();
+    return { adv: tf.tensor4d(state.points, problem.x.shape), flipped: state.flipped, gradientEvaluations: state.gradientRows / n };
+  } finally {
+    targets?.dispose();
+  }
 }

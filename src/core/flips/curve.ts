@@ -2,7 +2,7 @@
  * What flip budgets say about the whole robustness curve: a sample is robust at ε exactly when its
  * flip budget exceeds ε, so one flip-budget run gives the robust accuracy at every ε at once.
  */
-import { wilsonInterval } from '../stats/wilson.ts';
+import { robustAccuracyEstimate } from '../stats/wilson.ts';
 import type { FlipCurvePoint, FlipRecord } from './types.ts';
 
 /** Flip budgets as numbers: 0 for misclassified clean, +∞ for samples nothing flipped. */
@@ -19,8 +19,7 @@ export function robustAccuracyFromFlips(flipEps: readonly (number | null)[], gri
   const n = sorted.length;
   return grid.map((eps) => {
     const robust = n - countAtMost(sorted, eps);
-    const ci = wilsonInterval(robust, n);
-    return { eps, samples: n, robust, robustAccuracy: n === 0 ? 0 : robust / n, ci95Low: ci.low, ci95High: ci.high };
+    return { eps, samples: n, robust, ...robustAccuracyEstimate(robust, n) };
   });
 }
 

@@ -6,7 +6,7 @@
 import * as tf from '@tensorflow/tfjs';
 import type { Norm } from '../types.ts';
 import type { Rng } from '../random/rng.ts';
-import { perSampleL2, uniformL2Ball, uniformLinfBall } from '../attacks/projections.ts';
+import { perSampleL2, perturbInBox, uniformL2Ball, uniformLinfBall } from '../attacks/projections.ts';
 
 /** Guards divisions by a per-row norm that may be zero. */
 const TINY = 1e-12;
@@ -41,7 +41,7 @@ export function randomStartRows(x: tf.Tensor4D, eps: Float32Array, norm: Norm, r
     const scale = eps[row]!;
     for (let i = row * dim; i < (row + 1) * dim; i++) unit[i] = unit[i]! * scale;
   }
-  return tf.tidy(() => tf.clipByValue(tf.add(x, tf.tensor4d(unit, x.shape)), 0, 1) as tf.Tensor4D);
+  return perturbInBox(x, unit);
 }
 
 /** ‖δ‖∞ or ‖δ‖₂ of each row of adv − x, in the norm's own sense (float32, as the sweep measures it). */

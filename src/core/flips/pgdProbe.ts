@@ -7,11 +7,12 @@
 import * as tf from '@tensorflow/tfjs';
 import type { AttackContext, AttackOutcome } from '../attacks/types.ts';
 import type { PgdOptions } from '../attacks/pgd.ts';
-import { lossAndInputGradient, lossAndLogits, misclassified } from '../attacks/losses.ts';
+import { perSampleLoss } from '../attacks/losses.ts';
 import { normalisedStep } from '../attacks/projections.ts';
 import { makeYielder, throwIfAborted } from '../attacks/control.ts';
 import { tidyObject } from '../attacks/tensors.ts';
-import { activeSamples, createSearchState, recordIterate, type SearchState } from '../attacks/searchState.ts';
+import { activeSamples, createSearchState, type SearchState } from '../attacks/searchState.ts';
+import { evaluateIterate, keptRows, runIterates } from '../attacks/iterateLoop.ts';
 import { budgetTensor, projectRows, randomStartRows } from './geometry.ts';
 import type { FlipProbe, ProbeProblem } from './probe.ts';
 
@@ -54,35 +55,24 @@ async function runRestart(
   options: PgdOptions,
   context: AttackContext,
   state: SearchState,
-  firstSamples: number[],
+  samples: number[],
   fromStart: boolean,
   pause: () => Promise<void>,
 ): Promise<void> {
-  let samples = firstSamples;
-  let rows = firstRows(problem, options, context, samples, fromStart);
-  try {
-    for (let step = 0; ; step++) {
-      const last = step === options.steps;
-      const evaluated = tidyObject(() => evaluate(problem, options, rows, last));
-      let stillActive: number[];
-      try {
-        const [iterate, loss, mis] = await Promise.all([rows.current.data(), evaluated.loss.data(), evaluated.mis.data()]);
-        stillActive = recordIterate(state, samples, iterate as Float32Array, loss, mis);
-        if (!last) state.gradientRows += samples.length;
-        if (last || stillActive.length === 0) break;
-        const next = tidyObject(() => ascend(problem, rows, evaluated.grad!, stillActive));
-        disposeRows(rows);
-        rows = next;
-      } finally {
-        tf.dispose([evaluated.loss, evaluated.mis, ...(evaluated.grad ? [evaluated.grad] : [])]);
-      }
-      samples = stillActive.map((i) => samples[i]!);
-      throwIfAborted(context.signal);
-      await pause();
-    }
-  } finally {
-    disposeRows(rows);
-  }
+  await runIterates(
+    {
+      steps: options.steps,
+      signal: context.signal,
+      pause,
+      evaluate: (rows, forwardOnly) =>
+        evaluateIterate(problem.logits, rows.current, rows.labels, (z) => perSampleLoss(z, rows.labels, options.loss, null), forwardOnly),
+      step: (rows, grad, keep) => ascend(problem, rows, grad, keep),
+      dispose: disposeRows,
+    },
+    state,
+    samples,
+    firstRows(problem, options, context, samples, fromStart),
+  );
 }
 
 function firstRows(problem: ProbeProblem, options: PgdOptions, context: AttackContext, samples: number[], fromStart: boolean): Rows {
@@ -99,25 +89,9 @@ function firstRows(problem: ProbeProblem, options: PgdOptions, context: AttackCo
   });
 }
 
-interface Evaluation {
-  readonly loss: tf.Tensor1D;
-  readonly mis: tf.Tensor1D;
-  readonly grad?: tf.Tensor4D;
-}
-
-function evaluate(problem: ProbeProblem, options: PgdOptions, rows: Rows, forwardOnly: boolean): Evaluation {
-  if (forwardOnly) {
-    const { loss, logits } = lossAndLogits(problem.logits, rows.current, rows.labels, options.loss, null);
-    return { loss, mis: misclassified(logits, rows.labels) };
-  }
-  const { loss, logits, grad } = lossAndInputGradient(problem.logits, rows.current, rows.labels, options.loss, null);
-  return { loss, mis: misclassified(logits, rows.labels), grad };
-}
-
 /** One ascent step for the local rows in `keep`; flipped rows are dropped. */
 function ascend(problem: ProbeProblem, rows: Rows, grad: tf.Tensor4D, keep: number[]): Rows {
-  const sub = keep.length === rows.labels.shape[0] ? null : tf.tensor1d(keep, 'int32');
-  const pick = <T extends tf.Tensor>(t: T): T => (sub === null ? tf.clone(t) : tf.gather(t, sub));
+  const pick = keptRows(keep, rows.labels.shape[0]);
   const clean = pick(rows.clean);
   const eps = pick(rows.eps);
   const alpha = pick(rows.alpha);

@@ -6,7 +6,7 @@
 import type { AttackId } from '../attacks/types.ts';
 import type { SampleRecord, SweepResult } from '../sweep/types.ts';
 import { medianFlipBudget } from './curve.ts';
-import { wilsonInterval } from './wilson.ts';
+import { robustAccuracyEstimate } from './wilson.ts';
 
 /** Robustness of the samples of one true class at one attack × budget. */
 export interface ClassRobustness {
@@ -77,19 +77,14 @@ export function perClassRobustness(result: SweepResult, names: readonly string[]
       if (correct) cleanCorrect[r.label]!++;
       if (correct && r.outcomes[slot]?.flipped === false) robust[r.label]!++;
     }
-    const classes = classNames.map((className, c) => {
-      const ci = wilsonInterval(robust[c]!, samples[c]!);
-      return {
-        classIndex: c,
-        className,
-        samples: samples[c]!,
-        cleanCorrect: cleanCorrect[c]!,
-        robust: robust[c]!,
-        robustAccuracy: samples[c] === 0 ? 0 : robust[c]! / samples[c]!,
-        ci95Low: ci.low,
-        ci95High: ci.high,
-      };
-    });
+    const classes = classNames.map((className, c) => ({
+      classIndex: c,
+      className,
+      samples: samples[c]!,
+      cleanCorrect: cleanCorrect[c]!,
+      robust: robust[c]!,
+      ...robustAccuracyEstimate(robust[c]!, samples[c]!),
+    }));
     return { attack, eps, classes };
   });
 }

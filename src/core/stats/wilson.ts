@@ -23,3 +23,16 @@ export function wilsonInterval(successes: number, trials: number, z: number = Z9
   const high = successes >= trials ? 1 : Math.min(1, centre + half);
   return { low, high };
 }
+
+/** A robust accuracy with its Wilson 95 % interval, as curve points and class tables report it. */
+export interface RobustAccuracyEstimate {
+  readonly robustAccuracy: number;
+  readonly ci95Low: number;
+  readonly ci95High: number;
+}
+
+/** `robust` out of `samples` (0 when there are no samples) with its Wilson 95 % interval. */
+export function robustAccuracyEstimate(robust: number, samples: number): RobustAccuracyEstimate {
+  const ci = wilsonInterval(robust, samples);
+  return { robustAccuracy: samples === 0 ? 0 : robust / samples, ci95Low: ci.low, ci95High: ci.high };
+}

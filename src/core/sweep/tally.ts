@@ -4,7 +4,7 @@
  */
 import type { AttackId } from '../attacks/types.ts';
 import type { Norm, SampleSet } from '../types.ts';
-import { wilsonInterval } from '../stats/wilson.ts';
+import { robustAccuracyEstimate } from '../stats/wilson.ts';
 import type { AdversarialOutcome, CurvePoint, SampleRecord } from './types.ts';
 
 export interface CleanTable {
@@ -84,7 +84,6 @@ export function curvePoint(table: PointTable, clean: CleanTable, norm: Norm): Cu
   let flips = 0;
   for (let i = 0; i < samples; i++) flips += table.flipped[i]!;
   const robust = clean.correctCount - flips;
-  const ci = wilsonInterval(robust, samples);
   return {
     attack: table.attack,
     norm,
@@ -92,9 +91,7 @@ export function curvePoint(table: PointTable, clean: CleanTable, norm: Norm): Cu
     samples,
     cleanCorrect: clean.correctCount,
     robust,
-    robustAccuracy: samples === 0 ? 0 : robust / samples,
-    ci95Low: ci.low,
-    ci95High: ci.high,
+    ...robustAccuracyEstimate(robust, samples),
     attackSuccessRate: clean.correctCount === 0 ? 0 : flips / clean.correctCount,
   };
 }

@@ -5,8 +5,8 @@
  * matrix (taps.ts), and one matrix product with dy gives the filter gradient.
  */
 import * as tf from '@tensorflow/tfjs';
-import { asBackend, pairOf, requireInput, runComposed, shape4 } from './composed.ts';
-import { toChannelsLast, windowGeometry } from './spatial.ts';
+import { asBackend, requireInput, runComposed, shape4 } from './composed.ts';
+import { convWindowGeometry, toChannelsLast, type ConvWindowAttrs } from './spatial.ts';
 import { extractTaps, tapCount } from './taps.ts';
 import type { WindowGeometry } from './spatial.ts';
 
@@ -28,20 +28,9 @@ export function conv2dFilterGradient(x: tf.Tensor4D, dy: tf.Tensor4D, g: WindowG
 function conv2DBackpropFilter({ inputs, backend, attrs }: Parameters<tf.KernelFunc>[0]): tf.TensorInfo {
   const x = requireInput(inputs, 'x', 'Conv2DBackpropFilter');
   const dy = requireInput(inputs, 'dy', 'Conv2DBackpropFilter');
-  const a = (attrs ?? {}) as unknown as tf.Conv2DBackpropFilterAttrs & { dilations?: number | [number, number] };
+  const a = (attrs ?? {}) as unknown as tf.Conv2DBackpropFilterAttrs & ConvWindowAttrs;
   const dataFormat = tf.backend_util.convertConv2DDataFormat(a.dataFormat ?? 'NHWC');
-  // tfjs passes no dilations to this kernel (its conv2d gradient requires 1); accept them if given.
-  const info = tf.backend_util.computeConv2DInfo(
-    shape4(x, 'x'),
-    [...a.filterShape],
-    a.strides,
-    pairOf(a.dilations, 1),
-    a.pad,
-    a.dimRoundingMode,
-    false,
-    dataFormat,
-  );
-  const g = windowGeometry(info);
+  const g = convWindowGeometry(shape4(x, 'x'), [...a.filterShape], a, false, dataFormat);
   return runComposed(asBackend(backend), [x, dy], (xT, dyT) => {
     const channelsFirst = dataFormat === 'channelsFirst';
     const x4 = channelsFirst ? toChannelsLast(xT as tf.Tensor4D) : (xT as tf.Tensor4D);

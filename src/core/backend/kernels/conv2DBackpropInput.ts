@@ -6,8 +6,8 @@
  * backend runs through XNNPACK.
  */
 import * as tf from '@tensorflow/tfjs';
-import { asBackend, pairOf, requireInput, runComposed, shape4 } from './composed.ts';
-import { spreadForTransposedConv, toChannelsFirst, toChannelsLast, windowGeometry } from './spatial.ts';
+import { asBackend, requireInput, runComposed, shape4 } from './composed.ts';
+import { convWindowGeometry, spreadForTransposedConv, toChannelsFirst, toChannelsLast, type ConvWindowAttrs } from './spatial.ts';
 import type { WindowGeometry } from './spatial.ts';
 
 /**
@@ -23,20 +23,9 @@ export function conv2dInputGradient(dy: tf.Tensor4D, filter: tf.Tensor4D, g: Win
 function conv2DBackpropInput({ inputs, backend, attrs }: Parameters<tf.KernelFunc>[0]): tf.TensorInfo {
   const dy = requireInput(inputs, 'dy', 'Conv2DBackpropInput');
   const filter = requireInput(inputs, 'filter', 'Conv2DBackpropInput');
-  const a = (attrs ?? {}) as unknown as tf.Conv2DBackpropInputAttrs & { dilations?: number | [number, number] };
+  const a = (attrs ?? {}) as unknown as tf.Conv2DBackpropInputAttrs & ConvWindowAttrs;
   const dataFormat = tf.backend_util.convertConv2DDataFormat(a.dataFormat ?? 'NHWC');
-  // tfjs passes no dilations to this kernel (its conv2d gradient requires 1); accept them if given.
-  const info = tf.backend_util.computeConv2DInfo(
-    [...a.inputShape],
-    shape4(filter, 'filter'),
-    a.strides,
-    pairOf(a.dilations, 1),
-    a.pad,
-    a.dimRoundingMode,
-    false,
-    dataFormat,
-  );
-  const g = windowGeometry(info);
+  const g = convWindowGeometry([...a.inputShape], shape4(filter, 'filter'), a, false, dataFormat);
   return runComposed(asBackend(backend), [dy, filter], (dyT, filterT) => {
     const channelsFirst = dataFormat === 'channelsFirst';
     const dy4 = channelsFirst ? toChannelsLast(dyT as tf.Tensor4D) : (dyT as tf.Tensor4D);

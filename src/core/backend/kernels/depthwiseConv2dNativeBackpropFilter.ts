@@ -6,8 +6,8 @@
  * per channel.
  */
 import * as tf from '@tensorflow/tfjs';
-import { asBackend, pairOf, requireInput, runComposed, shape4 } from './composed.ts';
-import { windowGeometry } from './spatial.ts';
+import { asBackend, requireInput, runComposed, shape4 } from './composed.ts';
+import { convWindowGeometry } from './spatial.ts';
 import { extractTaps, tapCount } from './taps.ts';
 import type { WindowGeometry } from './spatial.ts';
 
@@ -31,16 +31,7 @@ function depthwiseConv2dNativeBackpropFilter({ inputs, backend, attrs }: Paramet
   const dy = requireInput(inputs, 'dy', 'DepthwiseConv2dNativeBackpropFilter');
   const a = (attrs ?? {}) as unknown as tf.DepthwiseConv2dNativeBackpropFilterAttrs;
   const filterShape: [number, number, number, number] = [...a.filterShape];
-  const info = tf.backend_util.computeConv2DInfo(
-    shape4(x, 'x'),
-    filterShape,
-    a.strides,
-    pairOf(a.dilations, 1),
-    a.pad,
-    a.dimRoundingMode,
-    true,
-  );
-  const g = windowGeometry(info);
+  const g = convWindowGeometry(shape4(x, 'x'), filterShape, a, true);
   return runComposed(asBackend(backend), [x, dy], (xT, dyT) =>
     depthwiseFilterGradient(xT as tf.Tensor4D, dyT as tf.Tensor4D, g, filterShape[3]),
   );

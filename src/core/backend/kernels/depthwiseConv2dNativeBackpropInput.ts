@@ -7,8 +7,8 @@
  * multiply it by the channel count).
  */
 import * as tf from '@tensorflow/tfjs';
-import { asBackend, pairOf, requireInput, runComposed, shape4 } from './composed.ts';
-import { spreadForTransposedConv, windowGeometry } from './spatial.ts';
+import { asBackend, requireInput, runComposed, shape4 } from './composed.ts';
+import { convWindowGeometry, spreadForTransposedConv } from './spatial.ts';
 import type { WindowGeometry } from './spatial.ts';
 
 /**
@@ -30,16 +30,7 @@ function depthwiseConv2dNativeBackpropInput({ inputs, backend, attrs }: Paramete
   const dy = requireInput(inputs, 'dy', 'DepthwiseConv2dNativeBackpropInput');
   const filter = requireInput(inputs, 'filter', 'DepthwiseConv2dNativeBackpropInput');
   const a = (attrs ?? {}) as unknown as tf.DepthwiseConv2dNativeBackpropInputAttrs;
-  const info = tf.backend_util.computeConv2DInfo(
-    [...a.inputShape],
-    shape4(filter, 'filter'),
-    a.strides,
-    pairOf(a.dilations, 1),
-    a.pad,
-    a.dimRoundingMode,
-    true,
-  );
-  const g = windowGeometry(info);
+  const g = convWindowGeometry([...a.inputShape], shape4(filter, 'filter'), a, true);
   return runComposed(asBackend(backend), [dy, filter], (dyT, filterT) =>
     depthwiseInputGradient(dyT as tf.Tensor4D, filterT as tf.Tensor4D, g),
   );

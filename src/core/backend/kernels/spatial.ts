@@ -4,6 +4,7 @@
  * All tensors are NHWC.
  */
 import * as tf from '@tensorflow/tfjs';
+import { pairOf } from './composed.ts';
 
 /** The numbers of a 2-D convolution or pooling window that the kernels need. */
 export interface WindowGeometry {
@@ -44,6 +45,30 @@ export function windowGeometry(info: tf.backend_util.Conv2DInfo): WindowGeometry
     padTop: info.padInfo.top,
     padLeft: info.padInfo.left,
   };
+}
+
+/** The attributes of a conv2d or depthwise backprop kernel that fix the forward window (tfjs 4.22 names). */
+export interface ConvWindowAttrs {
+  readonly strides: [number, number] | number;
+  readonly pad: tf.Conv2DBackpropInputAttrs['pad'];
+  readonly dimRoundingMode?: 'floor' | 'round' | 'ceil';
+  /** Absent for the conv2d kernels: tfjs passes none (its conv2d gradient requires 1); accepted if given. */
+  readonly dilations?: [number, number] | number;
+}
+
+/**
+ * Window geometry of the forward convolution a backprop kernel differentiates, from the forward
+ * input and filter shapes and the kernel's attributes (dilations default to 1).
+ */
+export function convWindowGeometry(
+  inShape: [number, number, number, number],
+  filterShape: [number, number, number, number],
+  attrs: ConvWindowAttrs,
+  depthwise: boolean,
+  dataFormat: 'channelsFirst' | 'channelsLast' = 'channelsLast',
+): WindowGeometry {
+  const info = tf.backend_util.computeConv2DInfo(inShape, filterShape, attrs.strides, pairOf(attrs.dilations, 1), attrs.pad, attrs.dimRoundingMode, depthwise, dataFormat);
+  return windowGeometry(info);
 }
 
 /**
