@@ -1,22 +1,23 @@
-/** The per-class views of the last sweep: robust accuracy per true class and the flip matrix, for a chosen search × budget. */
+/**
+ * The per-class views of a sweep: robust accuracy per true class and the flip matrix, for a chosen
+ * search × budget. Shown for this session's last sweep (statistics from the worker) and for a run
+ * read from a saved-run file (computed here from its records).
+ */
 import { useMemo, useState, type ReactElement } from 'react';
 import type { Norm } from '../../core/types.ts';
+import type { SavedRun } from '../../core/savedRun/types.ts';
 import { useWorkspace } from '../store/workspace.ts';
-import { defaultChoice, statChoices, statsAt } from '../lib/classStats.ts';
+import { defaultChoice, savedRunClassViews, statChoices, statsAt, type ClassViews } from '../lib/classStats.ts';
 import { PerClassTable } from './PerClassTable.tsx';
 import { FlipMatrixTable } from './FlipMatrixTable.tsx';
 
-/** The panel (nothing until the statistics of the current sweep are in). */
-export function ClassBreakdown({ norm }: { norm: Norm }): ReactElement | null {
-  const stats = useWorkspace((s) => s.stats);
-  const runId = useWorkspace((s) => s.run.id);
-  const current = stats.runId === runId ? stats.value : null;
-  const choices = useMemo(() => (current === null ? [] : statChoices(current, norm)), [current, norm]);
+/** The panel for given statistics (nothing when the run has no budget above 0). */
+function ClassBreakdownView({ views, norm }: { views: ClassViews; norm: Norm }): ReactElement | null {
+  const choices = useMemo(() => statChoices(views, norm), [views, norm]);
   const [picked, setPicked] = useState<string | null>(null);
-  if (stats.runId === runId && stats.error !== null) return <p className="problem">The per-class figures could not be computed: {stats.error}</p>;
-  if (current === null || choices.length === 0) return null;
+  if (choices.length === 0) return null;
   const key = picked !== null && choices.some((c) => c.key === picked) ? picked : defaultChoice(choices);
-  const shown = key === null ? null : statsAt(current, key);
+  const shown = key === null ? null : statsAt(views, key);
   return (
     <section className="panel" data-testid="class-breakdown">
       <div className="row">
@@ -43,4 +44,19 @@ export function ClassBreakdown({ norm }: { norm: Norm }): ReactElement | null {
       )}
     </section>
   );
+}
+
+/** The panel of the current sweep (nothing until its statistics are in). */
+export function ClassBreakdown({ norm }: { norm: Norm }): ReactElement | null {
+  const stats = useWorkspace((s) => s.stats);
+  const runId = useWorkspace((s) => s.run.id);
+  if (stats.runId !== runId) return null;
+  if (stats.error !== null) return <p className="problem">The per-class figures could not be computed: {stats.error}</p>;
+  return stats.value === null ? null : <ClassBreakdownView views={stats.value} norm={norm} />;
+}
+
+/** The panel of a saved run, from the per-image records the file holds. */
+export function SavedClassBreakdown({ saved }: { saved: SavedRun }): ReactElement | null {
+  const views = useMemo(() => savedRunClassViews(saved), [saved]);
+  return <ClassBreakdownView views={views} norm={saved.run.config.norm} />;
 }

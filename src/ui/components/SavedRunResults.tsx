@@ -1,7 +1,7 @@
 /**
  * The results screen for a run read from a saved-run file: a banner saying so (file, date, model
- * and sample hashes), then the same curve, table and flipped images as after a sweep, all from the
- * file — nothing is run again.
+ * and sample hashes), then the same curve, table, per-class views and flipped images as after a
+ * sweep, all from the file — nothing is run again.
  */
 import type { ReactElement } from 'react';
 import type { SavedRun } from '../../core/savedRun/types.ts';
@@ -14,6 +14,7 @@ import { CurveChart } from './CurveChart.tsx';
 import { ResultsTable } from './ResultsTable.tsx';
 import { Cautions } from './Cautions.tsx';
 import { SavedRunGallery } from './SavedRunGallery.tsx';
+import { SavedClassBreakdown } from './ClassBreakdown.tsx';
 import '../review.css';
 
 /** The banner: where the numbers come from. */
@@ -97,6 +98,7 @@ export function SavedRunResults({ entry }: { entry: ReviewEntry }): ReactElement
         <Cautions />
       </div>
       <SavedHealth saved={entry.saved} />
+      <SavedClassBreakdown saved={entry.saved} />
       <SavedRunGallery saved={entry.saved} />
     </div>
   );

@@ -2,8 +2,11 @@
 import type { ReactElement } from 'react';
 import { useWorkspace } from '../store/workspace.ts';
 import { SCREENS, type ScreenId, type WorkspaceState } from '../store/state.ts';
+import { comparedIds, useReview, type ReviewState } from '../store/review.ts';
+import { hasCurrentRun } from '../store/reviewActions.ts';
 import { duration, percent } from '../lib/format.ts';
 import { attackLabel } from '../lib/figure.ts';
+import { reviewStepText, type ReviewStepFacts } from '../lib/review.ts';
 
 const TITLES: Readonly<Record<ScreenId, string>> = {
   model: 'Model',
@@ -16,8 +19,14 @@ const TITLES: Readonly<Record<ScreenId, string>> = {
   review: 'Review & compare',
 };
 
-/** One line of status under a step's title. */
-export function stepStatus(screen: ScreenId, s: WorkspaceState): string {
+/** The review screen's counts, in the workspace `s`. */
+export function reviewFacts(review: Pick<ReviewState, 'entries' | 'excluded' | 'baseline' | 'busy'>, s: Pick<WorkspaceState, 'run'>): ReviewStepFacts {
+  const current = hasCurrentRun(s);
+  return { kept: review.entries.length, current, compared: comparedIds(review, current).length, busy: review.busy !== null };
+}
+
+/** One line of status under a step's title (`review`: the review screen's counts). */
+export function stepStatus(screen: ScreenId, s: WorkspaceState, review: ReviewStepFacts): string {
   switch (screen) {
     case 'model':
       return s.model.busy ? 'loading…' : s.model.value ? `${s.model.value.description.numClasses} classes, ${s.model.value.description.height}×${s.model.value.description.width}` : 'none yet';
@@ -35,13 +44,15 @@ export function stepStatus(screen: ScreenId, s: WorkspaceState): string {
     case 'exports':
       return s.run.status === 'running' ? 'after the run' : s.run.result ? 'ready' : 'after a run';
     case 'review':
-      return 'save, load, report, compare';
+      return reviewStepText(review);
   }
 }
 
 /** The step navigation. */
 export function StepNav(): ReactElement {
   const state = useWorkspace();
+  const reviewState = useReview();
+  const review = reviewFacts(reviewState, state);
   return (
     <nav className="steps" aria-label="Steps">
       <ol>
@@ -56,7 +67,7 @@ export function StepNav(): ReactElement {
             >
               <span className="step-number">{i + 1}</span>
               <span className="step-title">{TITLES[screen]}</span>
-              <span className="step-status">{stepStatus(screen, state)}</span>
+              <span className="step-status">{stepStatus(screen, state, review)}</span>
             </button>
           </li>
         ))}

@@ -3,10 +3,22 @@
  * shading (always drawn with the count written in the cell, so colour is never the only cue).
  */
 import type { AttackId } from '../../core/attacks/types.ts';
-import type { FlipMatrix, PerClassPoint, SweepStatistics } from '../../core/stats/perClass.ts';
+import { flipMatrices, perClassRobustness, type FlipMatrix, type PerClassPoint, type SweepStatistics } from '../../core/stats/perClass.ts';
+import { sweepResultOf } from '../../core/savedRun/saveRun.ts';
+import type { SavedRun } from '../../core/savedRun/types.ts';
 import type { Norm } from '../../core/types.ts';
 import { describeEps, formatEps } from './budgets.ts';
 import { attackLabel } from './figure.ts';
+
+/** What the per-class views draw: the per-class table and the flip matrix of every search × budget. */
+export type ClassViews = Pick<SweepStatistics, 'perClass' | 'flipMatrices'>;
+
+/** The per-class views of a run read from a saved-run file, computed from its per-image records by the core. */
+export function savedRunClassViews(saved: SavedRun): ClassViews {
+  const result = sweepResultOf(saved);
+  const names = saved.run.samples.classNames ?? [];
+  return { perClass: perClassRobustness(result, names), flipMatrices: flipMatrices(result, names) };
+}
 
 /** One search × budget of the sweep, as a menu entry. */
 export interface StatChoice {
@@ -22,7 +34,7 @@ export function choiceKey(attack: AttackId, eps: number): string {
 }
 
 /** Every search × budget above 0 of the statistics, in sweep order. */
-export function statChoices(stats: SweepStatistics, norm: Norm): StatChoice[] {
+export function statChoices(stats: ClassViews, norm: Norm): StatChoice[] {
   return stats.perClass
     .filter((p) => p.eps > 0)
     .map((p) => ({ key: choiceKey(p.attack, p.eps), attack: p.attack, eps: p.eps, label: `${attackLabel(p.attack)} at ε = ${norm === 'linf' ? describeEps(p.eps) : formatEps(p.eps)}` }));
@@ -37,7 +49,7 @@ export function defaultChoice(choices: readonly StatChoice[]): string | null {
 }
 
 /** The per-class point and the flip matrix of one choice (null when the key is not in the statistics). */
-export function statsAt(stats: SweepStatistics, key: string): { perClass: PerClassPoint; matrix: FlipMatrix } | null {
+export function statsAt(stats: ClassViews, key: string): { perClass: PerClassPoint; matrix: FlipMatrix } | null {
   const perClass = stats.perClass.find((p) => choiceKey(p.attack, p.eps) === key);
   const matrix = stats.flipMatrices.find((m) => choiceKey(m.attack, m.eps) === key);
   return perClass === undefined || matrix === undefined ? null : { perClass, matrix };

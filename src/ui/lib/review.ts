@@ -76,3 +76,26 @@ export function demoModelOf<Id extends string>(saved: SavedRun, demoHashes: Read
   for (const [id, sha] of Object.entries(demoHashes) as [Id, string | undefined][]) if (sha === saved.run.model.sha256) return id;
   return null;
 }
+
+/** What the review step's status line is made from. */
+export interface ReviewStepFacts {
+  /** Runs kept on the review screen (read from files or kept from this session). */
+  readonly kept: number;
+  /** Whether this session has a finished run of its own. */
+  readonly current: boolean;
+  /** Runs ticked for the comparison. */
+  readonly compared: number;
+  /** A review action (saving, a report, the demo comparison) is in progress. */
+  readonly busy: boolean;
+}
+
+/** The review step's status line, e.g. "2 runs to compare" or "nothing saved yet". */
+export function reviewStepText(facts: ReviewStepFacts): string {
+  if (facts.busy) return 'working…';
+  const runs = facts.kept + (facts.current ? 1 : 0);
+  if (facts.compared >= 2) return `${facts.compared} runs to compare`;
+  if (runs === 0) return 'nothing saved yet';
+  if (facts.kept === 0) return "this session's run only";
+  if (runs === 1) return '1 saved run';
+  return `${facts.compared} of ${runs} runs ticked`;
+}
