@@ -3,7 +3,7 @@
  * CLI's files), plus a .zip of the adversarial images encoded as PNG by the browser.
  */
 import { curveCsv, samplesCsv } from '../core/export/curveCsv.ts';
-import { runJson } from '../core/export/runRecord.ts';
+import { runJson, type RunRecordInput } from '../core/export/runRecord.ts';
 import { epsLabeller } from '../core/export/epsLabels.ts';
 import { baseName, dirName } from '../core/samples/paths.ts';
 import { csvText } from '../core/export/csvFormat.ts';
@@ -29,7 +29,12 @@ export async function exportFile(kind: ExportKind, last: SweepRecordInputs): Pro
 }
 
 function runJsonOf(last: SweepRecordInputs): Promise<string> {
-  return runJson({
+  return runJson(runRecordInputOf(last));
+}
+
+/** What the run record (run.json, and the core of a saved run) needs from the last sweep. */
+export function runRecordInputOf(last: SweepRecordInputs): RunRecordInput {
+  return {
     result: last.result,
     modelFiles: last.modelFiles,
     sampleFiles: last.sampleFiles,
@@ -37,7 +42,7 @@ function runJsonOf(last: SweepRecordInputs): Promise<string> {
     backend: last.backend,
     model: last.model.description,
     classNames: last.classNames,
-  });
+  };
 }
 
 /**

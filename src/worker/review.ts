@@ -7,18 +7,13 @@ import { buildSavedRun, type HealthInput, type SavedRunInput } from '../core/sav
 import { keptFlipsFrom } from '../core/savedRun/thumbnails.ts';
 import type { SavedRun } from '../core/savedRun/types.ts';
 import { flipKey, type SweepRecordInputs } from './engine.ts';
+import { runRecordInputOf } from './exports.ts';
 
 /** What buildSavedRun needs, from the last sweep and the health checks the page holds (if any). */
 export function savedRunInputOf(last: SweepRecordInputs, health: readonly HealthInput[] | null, savedAt?: string): SavedRunInput {
   return {
+    ...runRecordInputOf(last),
     origin: 'workbench',
-    result: last.result,
-    modelFiles: last.modelFiles,
-    sampleFiles: last.sampleFiles,
-    preprocessing: last.preprocessing,
-    backend: last.backend,
-    model: last.model.description,
-    classNames: last.classNames,
     samples: last.samples,
     flips: keptFlipsFrom(last.result.records, (attack, index) => last.flips.get(flipKey(attack, index))),
     ...(health !== null && health.length > 0 ? { health } : {}),

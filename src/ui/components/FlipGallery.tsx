@@ -14,7 +14,7 @@ import { perturbationToRgba, pixelsToRgba, type ImageSize } from '../lib/imagery
 import { percent } from '../lib/format.ts';
 import { PixelCanvas } from './PixelCanvas.tsx';
 import { ConfidenceChart } from './ConfidenceChart.tsx';
-import { attackLabel } from '../lib/figure.ts';
+import { AttackSelect } from './AttackSelect.tsx';
 
 function Images({ image, size }: { image: FlipImage; size: ImageSize }): ReactElement {
   const views = useMemo(() => {
@@ -81,16 +81,7 @@ export function FlipGallery({ result }: { result: SweepResult }): ReactElement {
     <section className="panel">
       <h3>Flipped images</h3>
       <div className="row">
-        <label className="field inline">
-          search
-          <select value={shown ?? ''} onChange={(e) => setAttack(e.target.value as AttackId)}>
-            {attacks.map((a) => (
-              <option key={a} value={a}>
-                {attackLabel(a)}
-              </option>
-            ))}
-          </select>
-        </label>
+        <AttackSelect attacks={attacks} value={shown} onChange={setAttack} />
         <label className="field inline">
           true class
           <select value={classIndex ?? ''} onChange={(e) => setClassIndex(e.target.value === '' ? null : Number(e.target.value))} data-testid="gallery-class">

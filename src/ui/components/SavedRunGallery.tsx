@@ -6,6 +6,7 @@ import { useMemo, useState, type ReactElement } from 'react';
 import type { AttackId } from '../../core/attacks/types.ts';
 import type { FlipThumbnail, SavedRun } from '../../core/savedRun/types.ts';
 import { attackLabel } from '../lib/figure.ts';
+import { AttackSelect } from './AttackSelect.tsx';
 import { describeEps, formatEps } from '../lib/budgets.ts';
 import { percent } from '../lib/format.ts';
 
@@ -58,16 +59,7 @@ export function SavedRunGallery({ saved }: { saved: SavedRun }): ReactElement {
       </p>
       {attacks.length > 0 && (
         <div className="row">
-          <label className="field inline">
-            search
-            <select value={shown ?? ''} onChange={(e) => setChoice(e.target.value as AttackId)}>
-              {attacks.map((a) => (
-                <option key={a} value={a}>
-                  {attackLabel(a)}
-                </option>
-              ))}
-            </select>
-          </label>
+          <AttackSelect attacks={attacks} value={shown} onChange={setChoice} />
           <span className="muted">{flips.length} kept</span>
         </div>
       )}
