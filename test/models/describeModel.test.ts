@@ -97,6 +97,14 @@ describe('descriptions of loaded models', () => {
     expect(d).toMatchObject({ layout: 'nhwc', height: 0, width: 0, channels: 3, numClasses: 0, outputKind: 'logits' });
     expect(d.notes.join(' ')).toMatch(/free image dimensions; set the input size/);
   });
+  it('a model with one output score (no class scores) is refused with a message naming the file', async () => {
+    // One output unit cannot be a classifier's score vector: robust accuracy needs at least two classes (definition).
+    const spec: SmallNetSpec = { ...NCHW_LOGITS, layout: 'nhwc', classes: 1 };
+    const files = await layersModelFiles(spec, randomWeights(spec, 9));
+    const before = tf.memory().numTensors;
+    await expect(loadModelFromFiles(files)).rejects.toThrow(/model\.json gives a single output score per image/);
+    expect(tf.memory().numTensors).toBe(before);
+  });
 });
 
 describe('preprocessing checks', () => {

@@ -131,7 +131,6 @@ export function describeModel(facts: ModelFacts): ModelDescription {
   } else if (!facts.finalSoftmax) {
     notes.push('The output kind could not be probed without a fixed input size; assumed logits.');
   }
-  if (numClasses === 1) notes.push('The model has a single output score; attacks need at least two classes.');
   const description: ModelDescription = {
     format: facts.format,
     inputShape: facts.inputShape.slice(),

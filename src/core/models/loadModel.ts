@@ -32,12 +32,25 @@ export async function loadModelFromFiles(files: readonly NamedBytes[]): Promise<
   if (onnxFiles.length > 1) {
     throw new Error(`More than one .onnx file among the files (${onnxFiles.map((f) => f.name).join(', ')}); drop one model at a time.`);
   }
-  if (onnxFiles[0] !== undefined) return loadOnnx(onnxFiles[0]);
+  if (onnxFiles[0] !== undefined) return requireClassScores(await loadOnnx(onnxFiles[0]), onnxFiles[0].name);
   const model = findModelJson(files);
   const format = detectTfjsFormat(model);
   const weights = assembleWeights(model, files);
   const artifacts = tf.io.getModelArtifactsForJSONSync(model.json, weights.specs, weights.data);
-  return format === 'layers' ? openLayersModel(artifacts, weights.specs) : openGraphModel(artifacts, weights.specs);
+  const loaded = format === 'layers' ? await openLayersModel(artifacts, weights.specs) : await openGraphModel(artifacts, weights.specs);
+  return requireClassScores(loaded, model.file.name);
+}
+
+/**
+ * Refuses a model that does not give one score per class (e.g. a single regression output):
+ * robust accuracy and every loss need at least two classes. 0 means "unknown until the input
+ * size is set" and passes.
+ */
+function requireClassScores(model: LoadedModel, name: string): LoadedModel {
+  const classes = model.description.numClasses;
+  if (classes !== 1) return model;
+  model.dispose();
+  throw new Error(`${name} gives a single output score per image, not one score per class; Brink needs a classifier with at least two classes.`);
 }
 
 /** The ONNX loader is imported on demand so that tfjs-only use never pays for the ONNX parser. */
