@@ -8,7 +8,7 @@ import type { FlagTable, ParsedArgs } from './args.ts';
 import { UsageError, formatUsage, parseChoice, parseNumber, requireValue } from './args.ts';
 import { PREPROCESSING_FLAGS, RUN_FLAGS, SEARCH_FLAGS, attackOptionsFor, runSettingsFromFlags, searchOptionsFromFlags } from './sweepFlags.ts';
 import { EXTRA_SEARCH_FLAGS, extraSearchOptionsFromFlags } from './searchOptionFlags.ts';
-import { INPUT_FLAGS, loadInputsFromFlags } from './loadInputs.ts';
+import { INPUT_FLAGS, loadInputsFromFlags, resizeFromFlags } from './loadInputs.ts';
 import { startNodeBackend } from './nodePlatform.ts';
 import { getAttack } from '../core/attacks/registry.ts';
 import { pgdMeta } from '../core/attacks/pgd.ts';
@@ -60,6 +60,7 @@ export async function flipsCommand(args: ParsedArgs): Promise<void> {
   const givenMaxEps = maxEpsText === undefined ? null : parseNumber(maxEpsText, '--max-eps', { positive: true });
   const tol = parseNumber(args.values.get('tol') ?? String(DEFAULT_TOL), '--tol', { positive: true });
   if (givenMaxEps !== null) asUsage(() => checkBisectionSettings(givenMaxEps, tol));
+  resizeFromFlags(args); // a bad --resize fails before the backend starts
 
   await startNodeBackend();
   const inputs = await loadInputsFromFlags(args, limit);

@@ -4,14 +4,14 @@
  */
 import { readFile } from 'node:fs/promises';
 import type { FlagTable, ParsedArgs } from './args.ts';
-import { UsageError, requireValue } from './args.ts';
+import { UsageError, parseChoice, requireValue } from './args.ts';
 import { preprocessingFromFlags } from './sweepFlags.ts';
 import { readModelFiles } from './nodeModelFiles.ts';
 import { readSampleFiles } from './nodeSampleFiles.ts';
 import { decodeImageNode } from './decodeImageNode.ts';
 import { loadModelFromFiles } from '../core/models/loadModel.ts';
 import { preprocessingFor, validatePreprocessing } from '../core/models/pipeline.ts';
-import { buildSampleSet, parseClassNames } from '../core/samples/buildSampleSet.ts';
+import { DEFAULT_RESIZE, RESIZE_MODES, buildSampleSet, parseClassNames, type ResizeMode } from '../core/samples/buildSampleSet.ts';
 import type { LoadedModel, ModelDescription, NamedBytes, Preprocessing, SampleSet } from '../core/types.ts';
 
 export interface LoadedInputs {
@@ -20,6 +20,8 @@ export interface LoadedInputs {
   readonly samples: SampleSet;
   readonly sampleFiles: readonly NamedBytes[];
   readonly preprocessing: Preprocessing;
+  /** How the sample images were brought to the model's size. */
+  readonly resize: ResizeMode;
 }
 
 export interface InputPaths {
@@ -27,6 +29,8 @@ export interface InputPaths {
   readonly samplesPath: string;
   readonly classesPath: string | undefined;
   readonly limit: number | undefined;
+  /** How sample images are brought to the model's size (default 'stretch'). */
+  readonly resize?: ResizeMode;
   /** Final preprocessing from the model's defaults (flags applied by the caller). */
   readonly preprocessing: (base: Preprocessing, description: ModelDescription) => Preprocessing;
 }
@@ -36,7 +40,14 @@ export const INPUT_FLAGS: FlagTable = {
   model: { kind: 'string', placeholder: '<model.json|model.onnx>', description: 'the model to evaluate' },
   samples: { kind: 'string', placeholder: '<folder|manifest.csv>', description: 'labelled samples: a folder per class or a file,label manifest' },
   classes: { kind: 'string', placeholder: '<file>', description: 'class names, one per line, in index order' },
+  resize: { kind: 'string', placeholder: RESIZE_MODES.join('|'), description: "stretch: whole image to the model's size (default); crop: centre crop to the model's proportions, then resize" },
 };
+
+/** --resize (default stretch); any other value is a usage error. */
+export function resizeFromFlags(args: ParsedArgs): ResizeMode {
+  const text = args.values.get('resize');
+  return text === undefined ? DEFAULT_RESIZE : parseChoice(text, '--resize', RESIZE_MODES);
+}
 
 /**
  * Load the inputs INPUT_FLAGS name (--model and --samples are required), keeping the first `limit`
@@ -48,6 +59,7 @@ export function loadInputsFromFlags(args: ParsedArgs, limit: number | undefined)
     samplesPath: requireValue(args, 'samples'),
     classesPath: args.values.get('classes'),
     limit,
+    resize: resizeFromFlags(args),
     preprocessing: (base, description) => preprocessingFromFlags(args, base, description),
   });
 }
@@ -62,6 +74,7 @@ export async function loadInputs(paths: InputPaths): Promise<LoadedInputs> {
     const problem = validatePreprocessing(preprocessing, description);
     if (problem) throw new UsageError(problem);
     const classNames = paths.classesPath === undefined ? undefined : await readClassNames(paths.classesPath);
+    const resize = paths.resize ?? DEFAULT_RESIZE;
     const sampleFiles = await asInputError(() => readSampleFiles(paths.samplesPath));
     const built = await asInputError(() =>
       buildSampleSet(sampleFiles, {
@@ -69,6 +82,7 @@ export async function loadInputs(paths: InputPaths): Promise<LoadedInputs> {
         width: description.width,
         channels: description.channels === 1 ? 1 : 3,
         decoder: decodeImageNode,
+        resize,
         ...(classNames ? { classNames } : {}),
       }),
     );
@@ -77,7 +91,7 @@ export async function loadInputs(paths: InputPaths): Promise<LoadedInputs> {
     if (maxLabel >= description.numClasses) {
       throw new UsageError(`label ${maxLabel} is out of range: the model has ${description.numClasses} classes (0..${description.numClasses - 1})`);
     }
-    return { model, modelFiles, samples, sampleFiles, preprocessing };
+    return { model, modelFiles, samples, sampleFiles, preprocessing, resize };
   } catch (err) {
     model.dispose();
     throw err;

@@ -41,6 +41,7 @@ export async function writeSavedRun(w: SavedRunWrite): Promise<void> {
     modelFiles: w.inputs.modelFiles,
     sampleFiles: w.inputs.sampleFiles,
     preprocessing: w.inputs.preprocessing,
+    resize: w.inputs.resize,
     model: w.inputs.model.description,
     classNames: w.inputs.samples.classNames,
     backend: w.backend,

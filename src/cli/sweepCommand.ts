@@ -7,7 +7,7 @@ import path from 'node:path';
 import type { FlagTable, ParsedArgs } from './args.ts';
 import { UsageError, formatUsage, parseChoice, parseNumberList, requireValue } from './args.ts';
 import { PREPROCESSING_FLAGS, RUN_FLAGS, SEARCH_FLAGS, attackOptionsFor, runSettingsFromFlags, searchOptionsFromFlags, targetFromFlag } from './sweepFlags.ts';
-import { INPUT_FLAGS, loadInputsFromFlags } from './loadInputs.ts';
+import { INPUT_FLAGS, loadInputsFromFlags, resizeFromFlags } from './loadInputs.ts';
 import { startNodeBackend } from './nodePlatform.ts';
 import { stderrProgress } from './progress.ts';
 import { EXTRA_SEARCH_FLAGS, extraSearchOptionsFromFlags } from './searchOptionFlags.ts';
@@ -53,6 +53,7 @@ export async function sweepCommand(args: ParsedArgs): Promise<void> {
   const eps = parseNumberList(epsText, '--eps', { min: 0 });
   const attacks = parseAttackList(requireValue(args, 'attack'), norm);
   const { seed, batchSize, limit } = runSettingsFromFlags(args);
+  resizeFromFlags(args); // a bad --resize fails before the backend starts
 
   const backend = await startNodeBackend();
   const inputs = await loadInputsFromFlags(args, limit);
@@ -81,6 +82,7 @@ export async function sweepCommand(args: ParsedArgs): Promise<void> {
       modelFiles: inputs.modelFiles,
       sampleFiles: inputs.sampleFiles,
       preprocessing: inputs.preprocessing,
+      resize: inputs.resize,
       model: inputs.model.description,
       classNames: inputs.samples.classNames,
       backend,

@@ -8,7 +8,7 @@ import { captureModelInput, extent, spreadIndices } from './preview.ts';
 import { initBackend, type BackendInfo } from '../core/backend/initBackend.ts';
 import { loadModelFromFiles } from '../core/models/loadModel.ts';
 import { makeLogitsFn, preprocessingFor } from '../core/models/pipeline.ts';
-import { buildSampleSet, parseClassNames, type SampleSetBuild } from '../core/samples/buildSampleSet.ts';
+import { DEFAULT_RESIZE, buildSampleSet, isResizeMode, parseClassNames, type ResizeMode, type SampleSetBuild } from '../core/samples/buildSampleSet.ts';
 import { isImageName } from '../core/samples/paths.ts';
 import { runSweep, type SweepHooks } from '../core/sweep/runSweep.ts';
 import type { AdversarialBatch } from '../core/sweep/runSweep.ts';
@@ -25,6 +25,8 @@ export interface SweepRecordInputs {
   readonly modelFiles: readonly NamedBytes[];
   readonly sampleFiles: readonly NamedBytes[];
   readonly preprocessing: Preprocessing;
+  /** How the sample images were brought to the model's size (absent: the default, stretch). */
+  readonly resize?: ResizeMode;
   readonly model: LoadedModel;
   /** The sample set the sweep ran on (the health checks must run on the very same one). */
   readonly samples: SampleSet;
@@ -55,6 +57,8 @@ export class Engine {
   private sampleFiles: NamedBytes[] = [];
   private givenClassNames: string[] | undefined;
   private samples: SampleSetBuild | null = null;
+  /** The resize mode of the next sample build (and of `samples`, which is rebuilt when it changes). */
+  private resize: ResizeMode = DEFAULT_RESIZE;
   private last: SweepRecordInputs | null = null;
 
   /** Start tfjs on WASM (threads only when the worker is cross-origin isolated). */
@@ -99,6 +103,25 @@ export class Engine {
     this.baseSampleFiles = expanded;
     this.sampleFiles = classNamesFile === null ? expanded : [...expanded, classNamesFile];
     this.givenClassNames = names;
+    return this.samplesInfo();
+  }
+
+  /**
+   * Set how images are brought to the model's size; samples already given are read again with it
+   * (null when there are none yet). On failure the previous mode and samples stay.
+   */
+  async setResize(mode: ResizeMode): Promise<SamplesInfo | null> {
+    if (!isResizeMode(mode)) throw new Error(`Unknown resize mode ${String(mode)}.`);
+    if (mode === this.resize) return this.samples === null ? null : this.samplesInfo();
+    const previous = this.resize;
+    this.resize = mode;
+    if (this.baseSampleFiles.length === 0) return null;
+    try {
+      this.samples = await this.build(this.baseSampleFiles, this.givenClassNames);
+    } catch (err) {
+      this.resize = previous;
+      throw err;
+    }
     return this.samplesInfo();
   }
 
@@ -151,6 +174,7 @@ export class Engine {
       modelFiles: this.modelFiles,
       sampleFiles: this.sampleFiles,
       preprocessing,
+      resize: this.resize,
       model,
       samples: set,
       classNames: set.classNames,
@@ -196,7 +220,7 @@ export class Engine {
 
   private async build(files: readonly NamedBytes[], classNames: readonly string[] | undefined): Promise<SampleSetBuild> {
     const size = this.model !== null ? modelSize(this.model) : await firstImageSize(files);
-    return buildSampleSet(files, { ...size, decoder: decodeImageBrowser, ...(classNames !== undefined ? { classNames } : {}) });
+    return buildSampleSet(files, { ...size, decoder: decodeImageBrowser, resize: this.resize, ...(classNames !== undefined ? { classNames } : {}) });
   }
 
   private mismatch(): string | null {

@@ -37,6 +37,7 @@ const handlers: { [M in MethodName]: Handler<M> } = {
   init: (a) => engine.init(a.wasmPath, a.threads),
   loadModel: (a) => engine.loadModel(a.files),
   loadSamples: (a) => engine.loadSamples(a.files, a.classNamesFile),
+  setResize: (a) => engine.setResize(a.resize),
   preview: (a) => engine.preview(a.count, a.preprocessing),
   clean: (a) => engine.clean(a.preprocessing),
   sweep: (a, id) =>

@@ -39,6 +39,7 @@ export function runRecordInputOf(last: SweepRecordInputs): RunRecordInput {
     modelFiles: last.modelFiles,
     sampleFiles: last.sampleFiles,
     preprocessing: last.preprocessing,
+    ...(last.resize !== undefined ? { resize: last.resize } : {}),
     backend: last.backend,
     model: last.model.description,
     classNames: last.classNames,

@@ -14,6 +14,7 @@ import type { FlipHistogram } from '../core/flips/curve.ts';
 import type { SweepStatistics } from '../core/stats/perClass.ts';
 import type { HealthInput } from '../core/savedRun/saveRun.ts';
 import type { SavedRun } from '../core/savedRun/types.ts';
+import type { ResizeMode } from '../core/samples/crop.ts';
 
 /** What the worker found out when the backend started. */
 export interface EngineInfo {
@@ -149,6 +150,8 @@ export interface EngineMethods {
   /** Samples given earlier are rebuilt for the new model's input size (or fail, with a reason). */
   loadModel: { args: { files: NamedBytes[] }; reply: ModelInfo & { samples: SamplesInfo | null; samplesError: string | null } };
   loadSamples: { args: { files: NamedBytes[]; classNamesFile: NamedBytes | null }; reply: SamplesInfo };
+  /** Set the resize mode; samples already loaded are read again with it (null when there are none). */
+  setResize: { args: { resize: ResizeMode }; reply: SamplesInfo | null };
   preview: { args: { count: number; preprocessing: Preprocessing }; reply: PreviewReply };
   clean: { args: { preprocessing: Preprocessing }; reply: CleanReply };
   sweep: { args: { config: SweepConfig; preprocessing: Preprocessing }; reply: SweepResult };

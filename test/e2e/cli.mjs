@@ -24,6 +24,8 @@ export function cliArgsFor(record, { model, samples, out }) {
   if (options.loss !== undefined) args.push('--loss', options.loss);
   if (options.target?.kind === 'least-likely') args.push('--target', 'least-likely');
   if (options.target?.kind === 'class') args.push('--target', String(options.target.classIndex));
+  // The resize mode is recorded only when it is not the default (stretch), and so passed only then.
+  if (record.samples?.resize !== undefined && record.samples.resize !== 'stretch') args.push('--resize', record.samples.resize);
   args.push('--input-range', preprocessing.inputRange, '--mean', preprocessing.mean.join(','), '--std', preprocessing.std.join(','), '--layout', preprocessing.layout);
   return args;
 }

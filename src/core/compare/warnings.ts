@@ -5,6 +5,7 @@
  */
 import type { SavedRun } from '../savedRun/types.ts';
 import type { LabelledRun } from './compareRuns.ts';
+import { DEFAULT_RESIZE } from '../samples/crop.ts';
 
 export type WarningKind = 'samples' | 'preprocessing' | 'threat-model' | 'search' | 'incomplete' | 'environment' | 'model';
 
@@ -28,6 +29,9 @@ export function comparisonWarnings(base: LabelledRun, other: LabelledRun): Compa
 
   if (a.samples.sha256 !== b.samples.sha256) warn('samples', `${between} used different samples (sample set SHA-256 ${short(a.samples.sha256)}… vs ${short(b.samples.sha256)}…).`);
   if (a.samples.count !== b.samples.count) warn('samples', `${between} evaluated different numbers of samples (${a.samples.count} vs ${b.samples.count}).`);
+  const resizeA = a.samples.resize ?? DEFAULT_RESIZE;
+  const resizeB = b.samples.resize ?? DEFAULT_RESIZE;
+  if (resizeA !== resizeB) warn('samples', `${between} brought the images to the model's size differently (${resizeA} vs ${resizeB}), so the models saw different pixels.`);
   if (JSON.stringify(a.preprocessing) !== JSON.stringify(b.preprocessing)) warn('preprocessing', `${between} used different preprocessing (${describePre(base.run)} vs ${describePre(other.run)}).`);
   if (a.config.norm !== b.config.norm) warn('threat-model', `${between} used different norms (${a.config.norm} vs ${b.config.norm}); no point is compared.`);
   const budgetsA = new Set(a.config.eps);

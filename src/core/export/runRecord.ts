@@ -11,6 +11,7 @@ import type { BackendInfo } from '../backend/initBackend.ts';
 import type { ModelDescription, NamedBytes, Preprocessing } from '../types.ts';
 import type { CurvePoint, SweepConfig, SweepResult } from '../sweep/types.ts';
 import { BRINK_VERSION } from '../version.ts';
+import { DEFAULT_RESIZE, type ResizeMode } from '../samples/crop.ts';
 import { hashFiles, sha256Hex, fileListing, type FileHash } from './hash.ts';
 
 /** Fingerprints of the model files and the sample files. */
@@ -32,6 +33,8 @@ export interface RunRecordInput {
   readonly classNames?: readonly string[];
   /** How the CLI was invoked, when it was. */
   readonly commandLine?: readonly string[];
+  /** How the sample images were brought to the model's size (default 'stretch'). */
+  readonly resize?: ResizeMode;
 }
 
 export interface RunRecord {
@@ -51,6 +54,8 @@ export interface RunRecord {
     readonly cleanCorrect: number;
     readonly cleanAccuracy: number;
     readonly classNames?: readonly string[];
+    /** Present only when not the default 'stretch' (so older records read the same). */
+    readonly resize?: ResizeMode;
   };
   readonly preprocessing: Preprocessing;
   readonly config: SweepConfig;
@@ -113,6 +118,7 @@ export async function runRecord(input: RunRecordInput): Promise<RunRecord> {
       cleanCorrect: result.cleanCorrect,
       cleanAccuracy: result.cleanAccuracy,
       ...(input.classNames !== undefined ? { classNames: [...input.classNames] } : {}),
+      ...(input.resize !== undefined && input.resize !== DEFAULT_RESIZE ? { resize: input.resize } : {}),
     },
     preprocessing: {
       inputRange: input.preprocessing.inputRange,

@@ -7,6 +7,7 @@ import { getAttack } from '../attacks/registry.ts';
 import type { TargetMode } from '../attacks/types.ts';
 import { epsLabeller } from '../export/epsLabels.ts';
 import type { SavedRun } from '../savedRun/types.ts';
+import { DEFAULT_RESIZE } from '../samples/crop.ts';
 
 export interface ReproduceCommand {
   /** One shell command line (POSIX quoting). */
@@ -69,6 +70,7 @@ function workbenchCommand(saved: SavedRun): ReproduceCommand {
   const label = epsLabeller(config);
   args.push('--attack', config.attacks.map((a) => a.id).join(','), '--norm', config.norm, '--eps', config.eps.map(label).join(','));
   const conflicts = optionArgs(saved, args);
+  if (samples.resize !== undefined && samples.resize !== DEFAULT_RESIZE) args.push('--resize', samples.resize);
   args.push('--input-range', preprocessing.inputRange, '--mean', preprocessing.mean.join(','), '--std', preprocessing.std.join(','), '--layout', preprocessing.layout);
   args.push('--seed', String(config.seed), '--batch', String(config.batchSize), '--out', 'brink-rerun');
   notes.unshift('Built from the workbench run\'s configuration: model/ holds the model files and samples/ the sample files as loaded (a folder per class, or the CSV manifest with its images); the SHA-256 values in this report identify them.');

@@ -4,6 +4,7 @@
  */
 import { getAttack } from '../attacks/registry.ts';
 import type { TargetMode } from '../attacks/types.ts';
+import type { ResizeMode } from '../samples/crop.ts';
 import { greyLevels, normName, percent } from './format.ts';
 import { html, type Html } from './html.ts';
 import { attackLabel, className, type ReportContext } from './context.ts';
@@ -47,6 +48,7 @@ ${run.model.files.map((f) => html`<tr><td>${f.name}</td><td class="hash">${f.sha
 <dt>Files hashed</dt><dd>${run.samples.files} (images and manifest, if any)</dd>
 <dt>Samples evaluated</dt><dd>${run.samples.count}</dd>
 <dt>Image size seen by the model</dt><dd>${c.saved.imageSize.height}×${c.saved.imageSize.width}×${c.saved.imageSize.channels}</dd>
+<dt>Resizing</dt><dd>${resizeDescription(run.samples.resize)}</dd>
 <dt>Clean accuracy</dt><dd>${run.samples.cleanCorrect} of ${run.samples.count} correct (${run.samples.cleanAccuracy.toFixed(6)})</dd>
 </dl>
 <table><thead><tr><th class="num">Index</th><th>Class</th><th class="num">Samples</th><th class="num">Correct clean</th></tr></thead><tbody>
@@ -115,4 +117,11 @@ function optionText(c: ReportContext, key: string, value: unknown): string {
     return `targeted: class ${t.classIndex} (${className(c, t.classIndex)})`;
   }
   return typeof value === 'object' ? JSON.stringify(value) : String(value);
+}
+
+/** Plain words for how the images were brought to the model's size (absent: stretched, the default). */
+function resizeDescription(mode: ResizeMode | undefined): string {
+  return mode === 'crop'
+    ? "centre cropped to the model's proportions, then resized bilinearly (the borders of the longer side are not seen)"
+    : "stretched to the model's size with bilinear resizing (proportions may change)";
 }

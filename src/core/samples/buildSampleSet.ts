@@ -9,6 +9,7 @@ import { readFolderLayout, type NormalisedFile } from './folders.ts';
 import { parseManifest } from './manifest.ts';
 import { dirName, isClassNamesName, isHiddenPath, isImageName, isManifestName, normalizePath } from './paths.ts';
 import { prepareImage } from './resize.ts';
+import { DEFAULT_RESIZE, isResizeMode, type ResizeMode } from './crop.ts';
 
 export interface SampleSetOptions {
   readonly height: number;
@@ -17,6 +18,11 @@ export interface SampleSetOptions {
   readonly decoder: ImageDecoder;
   /** Class names in index order; they win over a class-names file among the files. */
   readonly classNames?: readonly string[];
+  /**
+   * How an image becomes height × width: 'stretch' (default) resizes the whole image, 'crop' its
+   * largest centred region with the aspect ratio height : width (see crop.ts centreCropBox).
+   */
+  readonly resize?: ResizeMode;
 }
 
 export interface SampleSetBuild {
@@ -33,7 +39,8 @@ interface Labelled {
 }
 
 /**
- * Reads the files into a sample set at height × width × channels. With a .csv among the files
+ * Reads the files into a sample set at height × width × channels (each image stretched to that
+ * size, or centre-cropped to its proportions first with `resize: 'crop'`). With a .csv among the files
  * the manifest decides which images are used, in its row order; otherwise every image belongs to
  * its class folder, in path order. Class names come from `options.classNames`, else from a
  * class-names file (classes.txt, class_names.txt, class-names.txt or labels.txt) beside the
@@ -77,6 +84,7 @@ function checkOptions(options: SampleSetOptions): void {
     throw new Error(`sample size must be positive integers, got ${height}×${width}`);
   }
   if (channels !== 1 && channels !== 3) throw new Error(`channels must be 1 or 3, got ${String(channels)}`);
+  if (options.resize !== undefined && !isResizeMode(options.resize)) throw new Error(`resize must be stretch or crop, got ${String(options.resize)}`);
   const names = options.classNames;
   if (names !== undefined) {
     if (names.length === 0) throw new Error('the class-names list is empty');
@@ -121,13 +129,14 @@ function findClassNames(files: readonly NormalisedFile[], folder: string): strin
 
 async function decodeAll(labelled: readonly Labelled[], options: SampleSetOptions): Promise<Float32Array> {
   const { height, width, channels } = options;
+  const resize = options.resize ?? DEFAULT_RESIZE;
   const size = height * width * channels;
   const pixels = new Float32Array(labelled.length * size);
   for (let i = 0; i < labelled.length; i++) {
     const file = labelled[i]!.file;
     let prepared: Float32Array;
     try {
-      prepared = prepareImage(await options.decoder(file), height, width, channels);
+      prepared = prepareImage(await options.decoder(file), height, width, channels, resize);
     } catch (error) {
       throw new Error(`unreadable image ${file.name}: ${reasonOf(error)}`);
     }
@@ -142,3 +151,4 @@ function reasonOf(error: unknown): string {
 }
 
 export { parseClassNames } from './classNames.ts';
+export { RESIZE_MODES, DEFAULT_RESIZE, isResizeMode, type ResizeMode } from './crop.ts';

@@ -1,9 +1,10 @@
 /**
  * Image preparation in plain TypeScript on arrays (no tensors, no canvas), so a sample set has
- * the same pixels on every platform: RGBA bytes → floats in [0,1], channel conversion, and
- * bilinear resizing with half-pixel centres.
+ * the same pixels on every platform: RGBA bytes → floats in [0,1], channel conversion, an
+ * optional centre crop (crop.ts) and bilinear resizing with half-pixel centres.
  */
 import type { DecodedImage } from '../types.ts';
+import { DEFAULT_RESIZE, regionForResize, type ResizeMode } from './crop.ts';
 
 /** An image as floats, row-major, channels interleaved (HWC). */
 export interface FloatImage {
@@ -123,12 +124,14 @@ export function resizeBilinear(image: FloatImage, height: number, width: number)
 }
 
 /**
- * A decoded file → the model's input pixels: H·W·C floats in [0,1], alpha dropped. For one
- * channel the luma is taken before resizing (both steps are linear, so the order only changes
- * float rounding, and resizing one channel is cheaper than three).
+ * A decoded file → the model's input pixels: H·W·C floats in [0,1], alpha dropped. `resize`
+ * 'stretch' (the default) resizes the whole image; 'crop' resizes only its largest centred region
+ * with the model's aspect ratio (crop.ts centreCropBox). For one channel the luma is taken before
+ * resizing (both steps are linear, so the order only changes float rounding, and resizing one
+ * channel is cheaper than three).
  */
-export function prepareImage(decoded: DecodedImage, height: number, width: number, channels: 1 | 3): Float32Array {
-  const rgb = rgbaToRgb(decoded);
+export function prepareImage(decoded: DecodedImage, height: number, width: number, channels: 1 | 3, resize: ResizeMode = DEFAULT_RESIZE): Float32Array {
+  const rgb = regionForResize(rgbaToRgb(decoded), height, width, resize);
   const image = channels === 1 ? resizeBilinear(convertChannels(rgb, 1), height, width) : resizeBilinear(rgb, height, width);
   return image.data;
 }

@@ -6,6 +6,7 @@
 import { attackIds, isAttackId } from '../attacks/registry.ts';
 import type { AttackId } from '../attacks/types.ts';
 import { isBase64 } from './base64.ts';
+import { RESIZE_MODES } from '../samples/crop.ts';
 import {
   SavedRunError, at, booleanAt, choiceAt, eachAt, fail, listAt, numberAt, numberListAt, objectAt, stringAt, stringListAt, type Json,
 } from './fields.ts';
@@ -67,6 +68,7 @@ function checkRun(run: Json): number {
   stringAt(samples, 'sha256', 'run.samples');
   for (const key of ['files', 'count', 'cleanCorrect', 'cleanAccuracy']) numberAt(samples, key, 'run.samples');
   if (samples['classNames'] !== undefined) stringListAt(samples, 'classNames', 'run.samples');
+  if (samples['resize'] !== undefined) choiceAt(samples, 'resize', 'run.samples', RESIZE_MODES);
   const pre = objectAt(run['preprocessing'], 'run.preprocessing');
   choiceAt(pre, 'inputRange', 'run.preprocessing', ['0,1', '0,255', '-1,1']);
   numberListAt(pre, 'mean', 'run.preprocessing');

@@ -1,5 +1,6 @@
 /** Choices offered on the preprocessing screen, with the words the workbench shows for them. */
 import type { InputRange, Layout, Preprocessing } from '../../core/types.ts';
+import type { ResizeMode } from '../../core/samples/crop.ts';
 
 export interface NormalisationPreset {
   readonly id: 'none' | 'half' | 'photo';
@@ -31,6 +32,12 @@ export const INPUT_RANGE_LABELS: Readonly<Record<InputRange, string>> = {
 export const LAYOUT_LABELS: Readonly<Record<Layout, string>> = {
   nhwc: 'channels last (N, H, W, C)',
   nchw: 'channels first (N, C, H, W)',
+};
+
+/** Plain words for each resize mode (the preprocessing screen's select). */
+export const RESIZE_LABELS: Readonly<Record<ResizeMode, string>> = {
+  stretch: "stretch to the model's size",
+  crop: 'crop the centre, keeping proportions',
 };
 
 function sameValues(a: readonly number[], b: readonly number[]): boolean {

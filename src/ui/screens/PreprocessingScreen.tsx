@@ -4,10 +4,11 @@ import { validatePreprocessing } from '../../core/models/pipeline.ts';
 import type { InputRange, Layout, Preprocessing } from '../../core/types.ts';
 import type { PreviewReply } from '../../worker/protocol.ts';
 import { useWorkspace } from '../store/workspace.ts';
-import { refreshClean, refreshPreview } from '../store/actions.ts';
+import { refreshClean, refreshPreview, setResizeMode } from '../store/actions.ts';
 import { CleanAccuracy } from '../components/CleanAccuracy.tsx';
 import { PixelCanvas } from '../components/PixelCanvas.tsx';
-import { INPUT_RANGE_LABELS, LAYOUT_LABELS, NORMALISATION_PRESETS, presetOf, withPreset } from '../lib/presets.ts';
+import { INPUT_RANGE_LABELS, LAYOUT_LABELS, NORMALISATION_PRESETS, RESIZE_LABELS, presetOf, withPreset } from '../lib/presets.ts';
+import type { ResizeMode } from '../../core/samples/crop.ts';
 import { channelList, parseChannelList } from '../lib/format.ts';
 import { modelInputToRgba, pixelsToRgba } from '../lib/imagery.ts';
 
@@ -66,6 +67,8 @@ export function PreprocessingScreen(): ReactElement {
   const samples = useWorkspace((s) => s.samples.value);
   const preview = useWorkspace((s) => s.preview);
   const running = useWorkspace((s) => s.run.status === 'running');
+  const resize = useWorkspace((s) => s.resize);
+  const reading = useWorkspace((s) => s.samples.busy);
   const problem = model === null ? null : validatePreprocessing(pre, model.description);
   useEffect(() => {
     if (problem !== null || running) return;
@@ -127,9 +130,22 @@ export function PreprocessingScreen(): ReactElement {
             ))}
           </select>
         </label>
+        <label className="field">
+          Fitting images to the model's size{model ? ` (${model.description.height} × ${model.description.width})` : ''}
+          <select value={resize} disabled={running || reading} data-testid="resize-mode" onChange={(e) => void setResizeMode(e.target.value as ResizeMode)}>
+            {Object.entries(RESIZE_LABELS).map(([k, v]) => (
+              <option key={k} value={k}>
+                {v}
+              </option>
+            ))}
+          </select>
+          <span className="muted small">
+            {resize === 'crop'
+              ? 'The largest centred part with the model’s proportions is kept, then resized bilinearly; the edges of the longer side are cut off.'
+              : 'The whole image is resized bilinearly; a picture of other proportions is squeezed or widened.'}
+          </span>
+        </label>
         <p className="field">
-          Resizing: every image is stretched to the model's input size with bilinear interpolation{model ? ` (${model.description.height} × ${model.description.width})` : ''}.
-          <br />
           Channels: {model ? (model.description.channels === 1 ? 'grey (colour images are converted by luminance)' : 'colour (grey images are repeated into three channels)') : 'set by the model'}.
         </p>
         {problem !== null && <p className="problem" role="alert">{problem}</p>}

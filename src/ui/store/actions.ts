@@ -4,6 +4,7 @@
  */
 import type { AttackId } from '../../core/attacks/types.ts';
 import type { NamedBytes } from '../../core/types.ts';
+import type { ResizeMode } from '../../core/samples/crop.ts';
 import { startEngineWorker } from '../../worker/client.ts';
 import type { ModelInfo, SamplesInfo } from '../../worker/protocol.ts';
 import { DEMO_PLAN, toSweepConfig } from '../lib/plan.ts';
@@ -27,6 +28,8 @@ export async function startEngine(): Promise<void> {
   const threads = window.crossOriginIsolated ? Math.max(1, Math.min(navigator.hardwareConcurrency || 1, 4)) : null;
   try {
     const info = await engine.call('init', { wasmPath: appUrl('wasm/'), threads });
+    // The remembered resize mode, before any samples are read.
+    await engine.call('setResize', { resize: get().resize });
     set({ engine: { busy: false, value: info, error: null } });
   } catch (err) {
     set({ engine: { busy: false, value: null, error: messageOf(err) } });
@@ -66,6 +69,28 @@ export async function loadSamples(files: NamedBytes[], classNamesFile: NamedByte
     applySamples(info, label, demo);
   } catch (err) {
     set((s) => ({ samples: { ...s.samples, busy: false, error: messageOf(err) } }));
+    return false;
+  }
+  set({ preview: { busy: false, value: null, error: null } });
+  await refreshClean();
+  return true;
+}
+
+/**
+ * Change how sample images are brought to the model's size: the worker reads the loaded samples
+ * again (the preview and clean accuracy follow). On failure the previous mode stays.
+ */
+export async function setResizeMode(mode: ResizeMode): Promise<boolean> {
+  const previous = get().resize;
+  if (mode === previous) return true;
+  set((s) => ({ resize: mode, samples: { ...s.samples, busy: true, error: null } }));
+  try {
+    const info = await client().call('setResize', { resize: mode });
+    const current = get().samples.value;
+    if (info !== null && current !== null) applySamples(info, current.label, current.demo);
+    else set((s) => ({ samples: { ...s.samples, busy: false } }));
+  } catch (err) {
+    set((s) => ({ resize: previous, samples: { ...s.samples, busy: false, error: messageOf(err) } }));
     return false;
   }
   set({ preview: { busy: false, value: null, error: null } });

@@ -9,6 +9,7 @@ import type { NamedBytes } from '../../core/types.ts';
 import { hashFileSet } from '../../core/export/hash.ts';
 import { loadRun } from '../../core/savedRun/loadRun.ts';
 import { serializeSavedRun } from '../../core/savedRun/saveRun.ts';
+import { DEFAULT_RESIZE } from '../../core/samples/crop.ts';
 import { SAVED_RUN_FILE, type SavedRun } from '../../core/savedRun/types.ts';
 import { renderReport } from '../../core/report/renderReport.ts';
 import { compareRuns, type LabelledRun } from '../../core/compare/compareRuns.ts';
@@ -18,7 +19,7 @@ import { fetchDemoModel } from '../lib/demo.ts';
 import { demoModelOf, modelFileName, planFromConfig, uniqueLabel } from '../lib/review.ts';
 import { useWorkspace } from './workspace.ts';
 import { client, messageOf } from './engineHandle.ts';
-import { loadDemoModel, loadDemoSamples, saveBytes, startRun } from './actions.ts';
+import { loadDemoModel, loadDemoSamples, saveBytes, setResizeMode, startRun } from './actions.ts';
 import { workerBusy, type DemoModelId, type WorkspaceState } from './state.ts';
 import { CURRENT_RUN, comparedIds, comparisonChosen, entryAdded, useReview, type ReviewState } from './review.ts';
 
@@ -202,7 +203,7 @@ export function exportComparison(kind: 'csv' | 'svg'): Promise<void> {
 
 /**
  * The demo comparison: the run in view was made with one demo model; load the other one and the
- * demo samples, set the run's own plan and preprocessing, run it, and compare the two runs.
+ * demo samples, set the run's own plan, preprocessing and resize mode, run it, and compare the two runs.
  */
 export function compareWithOtherDemo(): Promise<void> {
   return task('Preparing the comparison run…', async () => {
@@ -219,6 +220,7 @@ export function compareWithOtherDemo(): Promise<void> {
     if (!(workspace().samples.value?.demo ?? false) && !(await loadDemoSamples())) throw new Error(workspace().samples.error ?? 'The demo samples did not load.');
     const { setPreprocessing, updatePlan, goTo, plan } = workspace();
     setPreprocessing(baseline.saved.run.preprocessing);
+    if (!(await setResizeMode(baseline.saved.run.samples.resize ?? DEFAULT_RESIZE))) throw new Error(workspace().samples.error ?? 'The samples could not be read with the run\'s resize mode.');
     updatePlan(planFromConfig(baseline.saved.run.config, plan.health));
     setReview({ viewing: null, busy: `Running the same plan on the ${DEMO_SHORT[other]} demo model…` });
     goTo('run');

@@ -5,6 +5,7 @@
 import type { CurvePoint, SweepProgress, SweepResult } from '../../core/sweep/types.ts';
 import type { Preprocessing } from '../../core/types.ts';
 import { DEFAULT_PREPROCESSING } from '../../core/types.ts';
+import { DEFAULT_RESIZE, type ResizeMode } from '../../core/samples/crop.ts';
 import type { CleanReply, EngineInfo, FlipImage, ModelInfo, PreviewReply, SamplesInfo } from '../../worker/protocol.ts';
 import { DEMO_PLAN, type PlanSettings } from '../lib/plan.ts';
 import { DEFAULT_FLIP_SETTINGS, type FlipSettings } from '../lib/flipPlan.ts';
@@ -79,10 +80,12 @@ export interface WorkspaceState {
   readonly health: HealthState;
   readonly stats: StatsState;
   readonly flips: FlipsState;
-  /** Persisted: the plan, the flip-budget form and the preprocessing chosen per model. */
+  /** Persisted: the plan, the flip-budget form, the preprocessing chosen per model and the resize mode. */
   readonly plan: PlanSettings;
   readonly flipSettings: FlipSettings;
   readonly preprocessingByModel: Readonly<Record<string, Preprocessing>>;
+  /** Persisted: how sample images are brought to the model's size. */
+  readonly resize: ResizeMode;
 }
 
 export const IDLE_RUN: RunState = {
@@ -114,6 +117,7 @@ export function initialState(): WorkspaceState {
     plan: DEMO_PLAN,
     flipSettings: DEFAULT_FLIP_SETTINGS,
     preprocessingByModel: {},
+    resize: DEFAULT_RESIZE,
   };
 }
 

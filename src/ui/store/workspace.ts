@@ -1,10 +1,11 @@
 /**
- * The workspace store (zustand). The plan, the flip-budget settings and the preprocessing chosen
- * per model persist in localStorage; loaded data, results and images do not (they live in the worker and in memory).
+ * The workspace store (zustand). The plan, the flip-budget settings, the preprocessing chosen
+ * per model and the resize mode persist in localStorage; loaded data, results and images do not (they live in the worker and in memory).
  */
 import { create } from 'zustand';
 import { createJSONStorage, persist } from 'zustand/middleware';
 import type { Preprocessing } from '../../core/types.ts';
+import { DEFAULT_RESIZE, isResizeMode } from '../../core/samples/crop.ts';
 import type { PlanSettings } from '../lib/plan.ts';
 import { DEMO_PLAN } from '../lib/plan.ts';
 import { healthSettingsFrom } from '../lib/health.ts';
@@ -24,7 +25,7 @@ export type Workspace = WorkspaceState & WorkspaceSetters;
 /** Key of the persisted settings in localStorage. */
 export const STORAGE_KEY = 'brink.workspace';
 
-type Persisted = Pick<WorkspaceState, 'plan' | 'preprocessingByModel' | 'flipSettings'>;
+type Persisted = Pick<WorkspaceState, 'plan' | 'preprocessingByModel' | 'flipSettings' | 'resize'>;
 
 function isRecord(value: unknown): value is Record<string, unknown> {
   return typeof value === 'object' && value !== null && !Array.isArray(value);
@@ -39,6 +40,7 @@ export function mergePersisted(persisted: unknown, current: Workspace): Workspac
     plan: { ...DEMO_PLAN, ...(p.plan ?? {}), options: isRecord(p.plan?.options) ? p.plan.options : {}, health: healthSettingsFrom(p.plan?.health) },
     preprocessingByModel: { ...(p.preprocessingByModel ?? {}) },
     flipSettings: flipSettingsFrom(p.flipSettings),
+    resize: isResizeMode(p.resize) ? p.resize : DEFAULT_RESIZE,
   };
 }
 
@@ -62,7 +64,7 @@ export const useWorkspace = create<Workspace>()(
       name: STORAGE_KEY,
       version: 2,
       storage: createJSONStorage(() => localStorage),
-      partialize: (s): Persisted => ({ plan: s.plan, preprocessingByModel: s.preprocessingByModel, flipSettings: s.flipSettings }),
+      partialize: (s): Persisted => ({ plan: s.plan, preprocessingByModel: s.preprocessingByModel, flipSettings: s.flipSettings, resize: s.resize }),
       merge: mergePersisted,
     },
   ),
