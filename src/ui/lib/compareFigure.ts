@@ -7,8 +7,7 @@ import type { Data, Layout } from 'plotly.js-dist-min';
 import type { AttackId } from '../../core/attacks/types.ts';
 import type { ComparisonRow, LabelledRun } from '../../core/compare/compareRuns.ts';
 import { PALETTE } from '../../core/report/svgChart.ts';
-import { attackLabel, groupByAttack } from './figure.ts';
-import { formatEps, greyLevels } from './budgets.ts';
+import { attackLabel, groupByAttack, robustAccuracyLayout } from './figure.ts';
 
 /** Plotly dash styles, one per search in first-seen order. */
 export const COMPARISON_DASHES = ['solid', 'dash', 'dot', 'dashdot'] as const;
@@ -66,27 +65,10 @@ export function comparisonTraces(runs: readonly LabelledRun[]): Data[] {
 
 /** The layout: budgets of all runs on the x axis (in k/255 too for L∞). */
 export function comparisonLayout(runs: readonly LabelledRun[]): Partial<Layout> {
-  const eps = [...new Set(runs.flatMap((r) => r.run.run.curve.map((p) => p.eps)))].sort((a, b) => a - b);
-  const norms = [...new Set(runs.map((r) => r.run.run.config.norm))];
-  const linf = norms.length === 1 && norms[0] === 'linf';
-  const normText = norms.map((n) => (n === 'linf' ? 'L∞' : 'L2')).join(' / ');
-  return {
-    margin: { l: 64, r: 20, t: 16, b: 72 },
-    paper_bgcolor: '#ffffff',
-    plot_bgcolor: '#ffffff',
-    font: { family: 'system-ui, -apple-system, "Segoe UI", sans-serif', size: 13, color: '#1f2a30' },
-    xaxis: {
-      title: { text: `budget ε (${normText}, pixel units on 0–1)` },
-      tickmode: 'array',
-      tickvals: eps,
-      ticktext: eps.map((e) => (linf ? `${formatEps(e)}<br>${greyLevels(e)}` : formatEps(e))),
-      zeroline: false,
-      gridcolor: '#e7e4dc',
-    },
-    yaxis: { title: { text: 'robust accuracy' }, range: [0, 1.02], tickformat: '.0%', gridcolor: '#e7e4dc', zeroline: false },
-    legend: { orientation: 'h', y: -0.28 },
-    hovermode: 'closest',
-  };
+  return robustAccuracyLayout(
+    runs.flatMap((r) => r.run.run.curve.map((p) => p.eps)),
+    runs.map((r) => r.run.run.config.norm),
+  );
 }
 
 /** A difference of proportions in percentage points with its sign: "+12.5 pp", "−3.0 pp", "0.0 pp". */

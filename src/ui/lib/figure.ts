@@ -89,18 +89,28 @@ export function curveTraces(points: readonly CurvePoint[], cleanAccuracy: number
 
 /** The chart layout; budgets are marked in pixel units and, for L∞, in grey levels (k/255). */
 export function curveLayout(points: readonly CurvePoint[], norm: Norm): Partial<Layout> {
-  const eps = [...new Set(points.map((p) => p.eps))].sort((a, b) => a - b);
-  const ticktext = eps.map((e) => (norm === 'linf' ? `${formatEps(e)}<br>${greyLevels(e)}` : formatEps(e)));
+  return robustAccuracyLayout(points.map((p) => p.eps), [norm]);
+}
+
+/**
+ * The robust-accuracy-against-ε frame shared by the curve and the comparison chart: one tick per
+ * budget, labelled in pixel units and, when every run is L∞, also in grey levels (k/255).
+ */
+export function robustAccuracyLayout(budgets: readonly number[], norms: readonly Norm[]): Partial<Layout> {
+  const eps = [...new Set(budgets)].sort((a, b) => a - b);
+  const distinctNorms = [...new Set(norms)];
+  const linf = distinctNorms.length === 1 && distinctNorms[0] === 'linf';
+  const normText = distinctNorms.map((n) => (n === 'linf' ? 'L∞' : 'L2')).join(' / ');
   return {
     margin: { l: 64, r: 20, t: 16, b: 72 },
     paper_bgcolor: '#ffffff',
     plot_bgcolor: '#ffffff',
     font: { family: 'system-ui, -apple-system, "Segoe UI", sans-serif', size: 13, color: '#1f2a30' },
     xaxis: {
-      title: { text: `budget ε (${norm === 'linf' ? 'L∞' : 'L2'}, pixel units on 0–1)` },
+      title: { text: `budget ε (${normText}, pixel units on 0–1)` },
       tickmode: 'array',
       tickvals: eps,
-      ticktext,
+      ticktext: eps.map((e) => (linf ? `${formatEps(e)}<br>${greyLevels(e)}` : formatEps(e))),
       zeroline: false,
       gridcolor: '#e7e4dc',
     },
